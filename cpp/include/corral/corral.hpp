@@ -1,0 +1,10 @@
+#pragma once
+/// \file corral.hpp
+/// Umbrella header: includes every public header of corral.
+
+#include <corral/defaults.hpp>
+#include <corral/errors.hpp>
+#include <corral/lp/check.hpp>
+#include <corral/lp/solver.hpp>
+#include <corral/types.hpp>
+#include <corral/version.hpp>

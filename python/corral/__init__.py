@@ -1,0 +1,58 @@
+"""corral: polytopes and invariant sets for constrained control.
+
+The compiled core lives in ``corral._core``; this package re-exports its public names and adds
+the conveniences that belong in Python.
+"""
+
+from __future__ import annotations
+
+from ._core import (
+    CorralError,
+    InvalidInputError,
+    LPResult,
+    NotFinitelyDeterminedError,
+    SolverError,
+    UnboundedSetError,
+    __version__,
+    backend_capabilities,
+    backends,
+    default_backend,
+    default_tol,
+    maximize,
+)
+from ._core import _set_default_backend, _set_default_tol
+
+__all__ = [
+    "CorralError",
+    "InvalidInputError",
+    "LPResult",
+    "NotFinitelyDeterminedError",
+    "SolverError",
+    "UnboundedSetError",
+    "__version__",
+    "backend_capabilities",
+    "backends",
+    "default_backend",
+    "default_tol",
+    "maximize",
+    "set_defaults",
+]
+
+
+def set_defaults(backend: str | None = None, tol: float | None = None) -> None:
+    """Set process-wide defaults used when a call gives none.
+
+    backend: name of an LP backend listed by :func:`backends`.
+    tol: relative tolerance, a finite number in (0, 0.1).
+    Arguments left as None keep their current value. Bad values raise InvalidInputError.
+    """
+    if backend is not None:
+        if not isinstance(backend, str):
+            raise InvalidInputError("backend: must be a string naming a backend")
+        _set_default_backend(backend)
+    if tol is not None:
+        try:
+            value = float(tol)
+        except (TypeError, ValueError):
+            raise InvalidInputError("tol: must be a number") from None
+        _set_default_tol(value)
