@@ -7,6 +7,7 @@ the conveniences that belong in Python.
 from __future__ import annotations
 
 from ._core import (
+    CancelledError,
     CorralError,
     InvalidInputError,
     LPResult,
@@ -19,14 +20,20 @@ from ._core import (
     default_backend,
     default_tol,
     maximize,
+    Polytope,
 )
 from ._core import _set_default_backend, _set_default_tol
+from ._polytope import ChebyshevBall, Info
 
 __all__ = [
+    "CancelledError",
+    "ChebyshevBall",
     "CorralError",
+    "Info",
     "InvalidInputError",
     "LPResult",
     "NotFinitelyDeterminedError",
+    "Polytope",
     "SolverError",
     "UnboundedSetError",
     "__version__",

@@ -10,6 +10,7 @@ PyObject* g_invalid_input = nullptr;
 PyObject* g_unbounded_set = nullptr;
 PyObject* g_not_finitely_determined = nullptr;
 PyObject* g_solver_error = nullptr;
+PyObject* g_cancelled = nullptr;
 
 PyObject* new_exception(py::module_& m, const char* name, PyObject* bases, const char* doc) {
   const std::string qualified = std::string("corral.") + name;
@@ -33,6 +34,8 @@ void register_errors(py::module_& m) {
                     "The conditions for finite determination fail.");
   g_solver_error = new_exception(m, "SolverError", g_corral_error,
                                  "A solver failed and no fallback could repair it.");
+  g_cancelled = new_exception(m, "CancelledError", g_corral_error,
+                              "A progress callback returned False.");
   py::register_exception_translator([](std::exception_ptr p) {
     try {
       if (p) std::rethrow_exception(p);
@@ -42,6 +45,8 @@ void register_errors(py::module_& m) {
       PyErr_SetString(g_unbounded_set, e.what());
     } catch (const NotFinitelyDeterminedError& e) {
       PyErr_SetString(g_not_finitely_determined, e.what());
+    } catch (const CancelledError& e) {
+      PyErr_SetString(g_cancelled, e.what());
     } catch (const SolverError& e) {
       PyErr_SetString(g_solver_error, e.what());
     } catch (const CorralError& e) {
@@ -57,4 +62,5 @@ PYBIND11_MODULE(_core, m) {
   m.attr("__version__") = CORRAL_PY_VERSION;
   corral::python::register_errors(m);
   corral::python::register_lp(m);
+  corral::python::register_polytope(m);
 }

@@ -6,5 +6,11 @@
 #include <corral/errors.hpp>
 #include <corral/lp/check.hpp>
 #include <corral/lp/solver.hpp>
+#include <corral/options.hpp>
+#include <corral/polytope.hpp>
+#include <corral/polytope_queries.hpp>
+#include <corral/rational.hpp>
+#include <corral/redundancy.hpp>
+#include <corral/enumeration.hpp>
 #include <corral/types.hpp>
 #include <corral/version.hpp>

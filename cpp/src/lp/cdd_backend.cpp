@@ -6,50 +6,14 @@
 #include <cmath>
 #include <string>
 
-#include "cdd_common.hpp"
+#include "cdd/cdd_common.hpp"
 #include "solver_base.hpp"
 
 namespace corral::lp::detail {
 namespace {
 
-// The two cddlib number types have parallel APIs with prefixes dd_ and ddf_.
-#define CORRAL_CDD_TRAITS(NAME, P, NUMBER)                                                   \
-  struct NAME {                                                                             \
-    using MatrixPtr = P##_MatrixPtr;                                                        \
-    using LPPtr = P##_LPPtr;                                                                \
-    using ErrorType = P##_ErrorType;                                                        \
-    static MatrixPtr create(long rows, long cols) { return P##_CreateMatrix(rows, cols); }  \
-    static void free_matrix(MatrixPtr M) { P##_FreeMatrix(M); }                             \
-    static void prepare(MatrixPtr M) {                                                      \
-      M->representation = P##_Inequality;                                                   \
-      M->numbtype = NUMBER;                                                                 \
-      M->objective = P##_LPmax;                                                             \
-    }                                                                                       \
-    static void set(MatrixPtr M, long i, long j, double v) { P##_set_d(M->matrix[i][j], v); } \
-    static void set_obj(MatrixPtr M, long j, double v) { P##_set_d(M->rowvec[j], v); }      \
-    static LPPtr to_lp(MatrixPtr M, ErrorType* err) { return P##_Matrix2LP(M, err); }       \
-    static bool solve(LPPtr lp, ErrorType* err) {                                           \
-      return P##_LPSolve(lp, P##_DualSimplex, err) != 0;                                     \
-    }                                                                                       \
-    static void free_lp(LPPtr lp) { P##_FreeLPData(lp); }                                   \
-    static bool no_error(ErrorType e) { return e == P##_NoError; }                          \
-    static bool optimal(LPPtr lp) { return lp->LPS == P##_Optimal; }                        \
-    static bool infeasible(LPPtr lp) {                                                      \
-      return lp->LPS == P##_Inconsistent || lp->LPS == P##_StrucInconsistent;               \
-    }                                                                                       \
-    static bool unbounded(LPPtr lp) {                                                       \
-      return lp->LPS == P##_DualInconsistent || lp->LPS == P##_StrucDualInconsistent ||     \
-             lp->LPS == P##_Unbounded;                                                      \
-    }                                                                                       \
-    static double sol(LPPtr lp, long j) { return P##_get_d(lp->sol[j]); }                   \
-    static double dsol(LPPtr lp, long j) { return P##_get_d(lp->dsol[j]); }                 \
-    static long nbindex(LPPtr lp, long j) { return lp->nbindex[j]; }                        \
-    static long pivots(LPPtr lp) { return lp->total_pivots; }                               \
-  };
-
-CORRAL_CDD_TRAITS(CddExact, dd, dd_Rational)
-CORRAL_CDD_TRAITS(CddFloat, ddf, ddf_Real)
-#undef CORRAL_CDD_TRAITS
+using corral::detail::CddExact;
+using corral::detail::CddFloat;
 
 // Dual multipliers cddlib reports per basic row: row nbindex[j+1] (1-based) carries dsol[j].
 template <class T>
@@ -69,7 +33,7 @@ Result cdd_solve(const Matrix& A, const Vector& b, const Vector& c) {
   Result r;
   auto lock = corral::detail::cdd_lock();
   typename T::MatrixPtr M = T::create(m, n + 1);
-  T::prepare(M);
+  T::prepare_lp(M);
   for (long i = 0; i < m; ++i) {
     T::set(M, i, 0, b(i));
     for (long j = 0; j < n; ++j) T::set(M, i, j + 1, A(i, j) == 0.0 ? 0.0 : -A(i, j));

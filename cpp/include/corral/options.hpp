@@ -1,0 +1,57 @@
+#pragma once
+/// \file options.hpp
+/// Per-call options, progress reports and work reports shared by the routines of corral.
+
+#include <corral/defaults.hpp>
+
+#include <functional>
+#include <string>
+
+namespace corral {
+
+/// What a long routine reports to its progress callback.
+struct Progress {
+  std::string stage;  ///< e.g. "redundancy", "implicit equalities"
+  long done = 0;      ///< rows (or steps) decided so far
+  long total = 0;     ///< rows (or steps) to decide
+  long lp_solves = 0; ///< LPs solved so far
+};
+
+/// Progress callback: return false to cancel (the routine then throws CancelledError).
+using ProgressCallback = std::function<bool(const Progress&)>;
+
+/// Options every routine takes. Zero / empty fields mean "use the process default".
+struct Options {
+  /// LP backend name (see lp::backends()); empty: lp::default_backend().
+  std::string backend;
+  /// Relative tolerance (DESIGN: relative to the set's scale, max |b_i|); 0: default_tol().
+  double tol = 0.0;
+  /// Called between LP solves; may be empty.
+  ProgressCallback progress;
+
+  double tolerance() const { return tol > 0.0 ? tol : default_tol(); }
+};
+
+/// Work done by a routine, returned on request (return_info).
+struct Info {
+  long lp_solves = 0;       ///< LPs solved
+  double mean_lp_rows = 0;  ///< mean number of rows per LP
+  double seconds = 0;       ///< wall-clock time
+  long fallbacks = 0;       ///< answers re-solved by another backend after failing verification
+  std::string method;       ///< which method produced the result
+
+  /// Records one LP of `rows` rows.
+  void count_lp(long rows) {
+    mean_lp_rows = (mean_lp_rows * static_cast<double>(lp_solves) + static_cast<double>(rows)) /
+                   static_cast<double>(lp_solves + 1);
+    ++lp_solves;
+  }
+};
+
+/// Thrown when a progress callback returns false.
+class CancelledError : public CorralError {
+ public:
+  CancelledError() : CorralError("cancelled by the progress callback") {}
+};
+
+}  // namespace corral

@@ -1,0 +1,113 @@
+"""Python conveniences on the compiled Polytope: argument handling, result objects, repr."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from ._core import InvalidInputError, Polytope
+
+
+@dataclass(frozen=True)
+class ChebyshevBall:
+    """The largest ball inside a set: ``center`` and ``radius``."""
+
+    center: np.ndarray
+    radius: float
+
+
+@dataclass(frozen=True)
+class Info:
+    """Work a routine did: LPs solved, their mean size, time, fallbacks, method."""
+
+    lp_solves: int
+    mean_lp_rows: float
+    seconds: float
+    fallbacks: int
+    method: str
+
+
+def _info(d: dict[str, Any]) -> Info:
+    return Info(**d)
+
+
+def _contains(self: Polytope, x, tol: float | None = None):
+    """Whether x is in the set (within tol * scale). A 1-D array of length dim is one point
+    (returns bool); a 2-D (k, dim) array is k points (returns a bool array)."""
+    arr = np.asarray(x, dtype=float)
+    if arr.ndim == 1:
+        return self._contains_point(arr, tol)
+    if arr.ndim == 2:
+        return np.array(self._contains_points(arr, tol), dtype=bool)
+    raise InvalidInputError(f"x: must be 1-D (one point) or 2-D (k points), got {arr.ndim}-D")
+
+
+def _chebyshev_center(self: Polytope, *, backend=None, tol=None) -> ChebyshevBall:
+    """Centre and radius of the largest ball in the set (one LP). Raises InvalidInputError
+    for an empty set and UnboundedSetError when balls of any radius fit."""
+    c, r = self._chebyshev_center(backend=backend, tol=tol)
+    return ChebyshevBall(np.asarray(c), float(r))
+
+
+def _support(self: Polytope, directions, *, backend=None, tol=None):
+    """Support function h(d) = max d·x: a float for one direction (1-D), an array for a
+    (k, dim) array of directions. +inf where unbounded, -inf for the empty set."""
+    arr = np.asarray(directions, dtype=float)
+    if arr.ndim == 1:
+        return float(self._support(arr[None, :], backend=backend, tol=tol)[0])
+    if arr.ndim == 2:
+        return np.asarray(self._support(arr, backend=backend, tol=tol))
+    raise InvalidInputError(f"directions: must be 1-D or 2-D, got {arr.ndim}-D")
+
+
+def _irredundant(self: Polytope, *, backend=None, tol=None, exact=False, progress=None,
+                 return_info=False):
+    """The same set without redundant rows (Clarkson's output-sensitive method after cheap
+    filters; exact=True: cddlib in GMP rationals). With return_info=True also an Info."""
+    P, info = self._irredundant(backend=backend, tol=tol, exact=exact, progress=progress)
+    return (P, _info(info)) if return_info else P
+
+
+def _redundant_rows(self: Polytope, *, backend=None, tol=None, exact=False, progress=None,
+                    return_info=False):
+    """Indices of the caller's rows that are redundant (zero rows dropped on construction
+    included). With return_info=True also an Info."""
+    rows, info = self._redundant_rows(backend=backend, tol=tol, exact=exact, progress=progress)
+    rows = np.asarray(rows, dtype=np.int64)
+    return (rows, _info(info)) if return_info else rows
+
+
+def _affine_hull(self: Polytope, *, backend=None, tol=None):
+    """(E, e, rows): the affine hull {x : E x = e} with orthonormal E (0 rows when the set is
+    full-dimensional), and the stored rows that hold with equality on the whole set."""
+    E, e, rows = self._affine_hull(backend=backend, tol=tol)
+    return np.asarray(E), np.asarray(e), np.asarray(rows, dtype=np.int64)
+
+
+def _vertices(self: Polytope, exact: bool = False, as_fractions: bool = False):
+    """Vertices, one per row, by double description through cddlib (exact: GMP rationals).
+    as_fractions=True (needs exact=True) returns lists of fractions.Fraction. Raises
+    UnboundedSetError for an unbounded set; an empty set gives a (0, dim) array."""
+    if as_fractions:
+        if not exact:
+            raise InvalidInputError("as_fractions: needs exact=True")
+        return self._vertices_exact()
+    return np.asarray(self._vertices(bool(exact)))
+
+
+def _repr(self: Polytope) -> str:
+    if self.num_rows == 1 and self.b[0] < 0 and not np.any(self.A):
+        return f"Polytope(dim={self.dim}, empty)"
+    return f"Polytope(dim={self.dim}, rows={self.num_rows})"
+
+
+Polytope.contains = _contains
+Polytope.chebyshev_center = _chebyshev_center
+Polytope.support = _support
+Polytope.irredundant = _irredundant
+Polytope.redundant_rows = _redundant_rows
+Polytope.affine_hull = _affine_hull
+Polytope.vertices = _vertices
+Polytope.__repr__ = _repr

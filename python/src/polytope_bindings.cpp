@@ -1,0 +1,249 @@
+// Bindings of Polytope: conversion, GIL release around LP work, progress callbacks that take
+// the GIL only to call Python (and check for Ctrl-C), and nothing algorithmic.
+
+#include <chrono>
+#include <memory>
+
+#include "bindings.hpp"
+
+namespace corral::python {
+
+namespace {
+
+// Builds Options from Python keywords. The progress wrapper is called without the GIL (the
+// algorithms run with it released); it takes the GIL, checks signals at most every 50 ms, and
+// calls the user's callback. A Python exception is kept and re-raised after the C++ call.
+struct CallOptions {
+  Options options;
+  std::shared_ptr<py::object> callback;
+  std::shared_ptr<std::exception_ptr> error = std::make_shared<std::exception_ptr>();
+};
+
+CallOptions make_options(std::optional<std::string> backend, std::optional<double> tol,
+                         py::object progress) {
+  CallOptions c;
+  c.options.backend = backend.value_or("");
+  if (!c.options.backend.empty()) lp::capabilities(c.options.backend);  // validates the name
+  if (tol) {
+    if (!(std::isfinite(*tol) && *tol > 0.0 && *tol < 0.1))
+      corral::detail::invalid("tol", "must be a finite number in (0, 0.1)");
+    c.options.tol = *tol;
+  }
+  if (!progress.is_none() && !PyCallable_Check(progress.ptr()))
+    corral::detail::invalid("progress", "must be callable or None");
+  c.callback = std::make_shared<py::object>(progress);
+  auto cb = c.callback;
+  auto err = c.error;
+  auto last = std::make_shared<std::chrono::steady_clock::time_point>();
+  c.options.progress = [cb, err, last](const Progress& p) -> bool {
+    const auto now = std::chrono::steady_clock::now();
+    if (cb->is_none() && now - *last < std::chrono::milliseconds(50)) return true;
+    *last = now;
+    py::gil_scoped_acquire gil;
+    try {
+      if (PyErr_CheckSignals() != 0) throw py::error_already_set();
+      if (cb->is_none()) return true;
+      py::dict d;
+      d["stage"] = p.stage;
+      d["done"] = p.done;
+      d["total"] = p.total;
+      d["lp_solves"] = p.lp_solves;
+      py::object r = (*cb)(d);
+      return r.is_none() || r.cast<bool>();
+    } catch (py::error_already_set&) {
+      *err = std::current_exception();
+      return false;
+    }
+  };
+  return c;
+}
+
+// Runs f with the GIL released; re-raises a Python exception caught in the progress callback.
+template <class F>
+auto run_released(const CallOptions& c, F&& f) {
+  try {
+    py::gil_scoped_release release;
+    return f();
+  } catch (const CancelledError&) {
+    if (*c.error) std::rethrow_exception(*c.error);
+    throw;
+  }
+}
+
+py::dict info_dict(const Info& info) {
+  py::dict d;
+  d["lp_solves"] = info.lp_solves;
+  d["mean_lp_rows"] = info.mean_lp_rows;
+  d["seconds"] = info.seconds;
+  d["fallbacks"] = info.fallbacks;
+  d["method"] = info.method;
+  return d;
+}
+
+py::object rational_matrix(const RationalMatrix& R) {
+  py::module_ fractions = py::module_::import("fractions");
+  py::object Fraction = fractions.attr("Fraction");
+  py::list rows;
+  for (Index i = 0; i < R.rows; ++i) {
+    py::list row;
+    for (Index j = 0; j < R.cols; ++j) {
+      const Rational& q = R(i, j);
+      row.append(Fraction(py::int_(py::str(q.numerator)), py::int_(py::str(q.denominator))));
+    }
+    rows.append(row);
+  }
+  return rows;
+}
+
+}  // namespace
+
+void register_polytope(py::module_& m) {
+  py::class_<Polytope> cls(m, "Polytope", "A convex polyhedron {x : A x <= b} (H-representation).");
+  cls.def(py::init([](py::object A, py::object b) {
+            return Polytope(to_matrix(A, "A"), to_vector(b, "b"));
+          }),
+          py::arg("A"), py::arg("b"))
+      .def_static(
+          "box",
+          [](py::object lower, py::object upper) {
+            return Polytope::box(to_vector(lower, "lower"), to_vector(upper, "upper"));
+          },
+          py::arg("lower"), py::arg("upper"))
+      .def_static("simplex", &Polytope::simplex, py::arg("n"))
+      .def_static("empty", &Polytope::empty, py::arg("n"))
+      .def_static(
+          "from_vertices",
+          [](py::object V, bool exact) {
+            const Matrix Vm = to_matrix(V, "V");
+            py::gil_scoped_release release;
+            return Polytope::from_vertices(Vm, exact);
+          },
+          py::arg("V"), py::kw_only(), py::arg("exact") = false)
+      .def_property_readonly("A", [](const Polytope& P) { return Matrix(P.A()); })
+      .def_property_readonly("b", [](const Polytope& P) { return Vector(P.b()); })
+      .def_property_readonly("dim", &Polytope::dim)
+      .def_property_readonly("num_rows", &Polytope::num_rows)
+      .def_property_readonly("source_rows", &Polytope::source_rows)
+      .def("_contains_point",
+           [](const Polytope& P, py::object x, std::optional<double> tol) {
+             return P.contains(to_vector(x, "x"), tol.value_or(0.0));
+           })
+      .def("_contains_points",
+           [](const Polytope& P, py::object X, std::optional<double> tol) {
+             return P.contains_points(to_matrix(X, "x"), tol.value_or(0.0));
+           })
+      .def(
+          "is_empty",
+          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+            auto c = make_options(backend, tol, py::none());
+            return run_released(c, [&] { return P.is_empty(c.options); });
+          },
+          py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
+      .def(
+          "is_bounded",
+          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+            auto c = make_options(backend, tol, py::none());
+            return run_released(c, [&] { return P.is_bounded(c.options); });
+          },
+          py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
+      .def(
+          "_chebyshev_center",
+          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+            auto c = make_options(backend, tol, py::none());
+            ChebyshevBall ball = run_released(c, [&] { return P.chebyshev_center(c.options); });
+            return py::make_tuple(ball.center, ball.radius);
+          },
+          py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
+      .def(
+          "_support",
+          [](const Polytope& P, py::object D, std::optional<std::string> backend,
+             std::optional<double> tol) {
+            const Matrix Dm = to_matrix(D, "directions");
+            auto c = make_options(backend, tol, py::none());
+            return run_released(c, [&] { return P.support_many(Dm, c.options); });
+          },
+          py::arg("directions"), py::kw_only(), py::arg("backend") = py::none(),
+          py::arg("tol") = py::none())
+      .def(
+          "bounding_box",
+          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+            auto c = make_options(backend, tol, py::none());
+            return run_released(c, [&] { return P.bounding_box(c.options); });
+          },
+          py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
+      .def(
+          "is_subset",
+          [](const Polytope& P, const Polytope& Q, std::optional<std::string> backend,
+             std::optional<double> tol) {
+            auto c = make_options(backend, tol, py::none());
+            return run_released(c, [&] { return P.is_subset(Q, c.options); });
+          },
+          py::arg("Q"), py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
+      .def(
+          "same_set",
+          [](const Polytope& P, const Polytope& Q, std::optional<std::string> backend,
+             std::optional<double> tol) {
+            auto c = make_options(backend, tol, py::none());
+            return run_released(c, [&] { return P.same_set(Q, c.options); });
+          },
+          py::arg("Q"), py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
+      .def("intersect", &Polytope::intersect, py::arg("Q"))
+      .def("__and__", &Polytope::intersect)
+      .def(
+          "affine_image",
+          [](const Polytope& P, py::object M, py::object t) {
+            return P.affine_image(to_matrix(M, "M"), t.is_none() ? Vector() : to_vector(t, "t"));
+          },
+          py::arg("M"), py::arg("t") = py::none())
+      .def(
+          "preimage",
+          [](const Polytope& P, py::object M, py::object t) {
+            return P.preimage(to_matrix(M, "M"), t.is_none() ? Vector() : to_vector(t, "t"));
+          },
+          py::arg("M"), py::arg("t") = py::none())
+      .def(
+          "_irredundant",
+          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol,
+             bool exact, py::object progress) {
+            auto c = make_options(backend, tol, progress);
+            Info info;
+            Polytope out = run_released(c, [&] { return P.irredundant(c.options, exact, &info); });
+            return py::make_tuple(out, info_dict(info));
+          },
+          py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+          py::arg("exact") = false, py::arg("progress") = py::none())
+      .def(
+          "_redundant_rows",
+          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol,
+             bool exact, py::object progress) {
+            auto c = make_options(backend, tol, progress);
+            Info info;
+            auto rows = run_released(c, [&] { return P.redundant_rows(c.options, exact, &info); });
+            return py::make_tuple(rows, info_dict(info));
+          },
+          py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+          py::arg("exact") = false, py::arg("progress") = py::none())
+      .def(
+          "_affine_hull",
+          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+            auto c = make_options(backend, tol, py::none());
+            AffineHull h = run_released(c, [&] { return P.affine_hull(c.options); });
+            return py::make_tuple(h.E, h.e, h.rows);
+          },
+          py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
+      .def("_vertices",
+           [](const Polytope& P, bool exact) {
+             py::gil_scoped_release release;
+             return P.vertices(exact);
+           })
+      .def("_vertices_exact", [](const Polytope& P) {
+        RationalMatrix R;
+        {
+          py::gil_scoped_release release;
+          R = P.vertices_exact();
+        }
+        return rational_matrix(R);
+      });
+}
+
+}  // namespace corral::python
