@@ -12,17 +12,18 @@ from ._core import (
     InvalidInputError,
     LPResult,
     NotFinitelyDeterminedError,
+    Polytope,
     SolverError,
     UnboundedSetError,
     __version__,
+    _set_default_backend,
+    _set_default_tol,
     backend_capabilities,
     backends,
     default_backend,
     default_tol,
     maximize,
-    Polytope,
 )
-from ._core import _set_default_backend, _set_default_tol
 from ._polytope import ChebyshevBall, Info
 
 __all__ = [
@@ -53,13 +54,20 @@ def set_defaults(backend: str | None = None, tol: float | None = None) -> None:
     tol: relative tolerance, a finite number in (0, 0.1).
     Arguments left as None keep their current value. Bad values raise InvalidInputError.
     """
+    # Validate both before changing either: a failing call changes nothing.
     if backend is not None:
         if not isinstance(backend, str):
             raise InvalidInputError("backend: must be a string naming a backend")
-        _set_default_backend(backend)
+        backend_capabilities(backend)  # raises InvalidInputError for an unknown name
+    value = None
     if tol is not None:
         try:
             value = float(tol)
         except (TypeError, ValueError):
             raise InvalidInputError("tol: must be a number") from None
+        if not (0.0 < value < 0.1):
+            raise InvalidInputError("tol: must be a finite number in (0, 0.1)")
+    if backend is not None:
+        _set_default_backend(backend)
+    if value is not None:
         _set_default_tol(value)

@@ -62,16 +62,18 @@ def _support(self: Polytope, directions, *, backend=None, tol=None):
     raise InvalidInputError(f"directions: must be 1-D or 2-D, got {arr.ndim}-D")
 
 
-def _irredundant(self: Polytope, *, backend=None, tol=None, exact=False, progress=None,
-                 return_info=False):
+def _irredundant(
+    self: Polytope, *, backend=None, tol=None, exact=False, progress=None, return_info=False
+):
     """The same set without redundant rows (Clarkson's output-sensitive method after cheap
     filters; exact=True: cddlib in GMP rationals). With return_info=True also an Info."""
     P, info = self._irredundant(backend=backend, tol=tol, exact=exact, progress=progress)
     return (P, _info(info)) if return_info else P
 
 
-def _redundant_rows(self: Polytope, *, backend=None, tol=None, exact=False, progress=None,
-                    return_info=False):
+def _redundant_rows(
+    self: Polytope, *, backend=None, tol=None, exact=False, progress=None, return_info=False
+):
     """Indices of the caller's rows that are redundant (zero rows dropped on construction
     included). With return_info=True also an Info."""
     rows, info = self._redundant_rows(backend=backend, tol=tol, exact=exact, progress=progress)

@@ -6,18 +6,24 @@ namespace corral::python {
 
 void register_lp(py::module_& m) {
   py::class_<lp::Result>(m, "LPResult", "Result of one LP: maximise c·x subject to A x <= b.")
-      .def_property_readonly("status", [](const lp::Result& r) { return lp::to_string(r.status); },
-                             "'optimal', 'infeasible', 'unbounded', 'stopped' or 'numerical'")
-      .def_property_readonly("x", [](const lp::Result& r) { return vector_or_none(r.x); },
-                             "optimiser (None unless optimal or stopped)")
-      .def_property_readonly("value", [](const lp::Result& r) { return r.value; },
-                             "c·x (nan unless optimal or stopped)")
-      .def_property_readonly("duals", [](const lp::Result& r) { return vector_or_none(r.duals); },
-                             "λ >= 0 with Aᵀλ = c, one per row (None when not provided)")
-      .def_property_readonly("ray", [](const lp::Result& r) { return vector_or_none(r.ray); },
-                             "an unbounded direction d (None when the backend gives none)")
-      .def_property_readonly("farkas", [](const lp::Result& r) { return vector_or_none(r.farkas); },
-                             "y >= 0 with Aᵀy = 0, bᵀy < 0 (None when not provided)")
+      .def_property_readonly(
+          "status", [](const lp::Result& r) { return lp::to_string(r.status); },
+          "'optimal', 'infeasible', 'unbounded', 'stopped' or 'numerical'")
+      .def_property_readonly(
+          "x", [](const lp::Result& r) { return vector_or_none(r.x); },
+          "optimiser (None unless optimal or stopped)")
+      .def_property_readonly(
+          "value", [](const lp::Result& r) { return r.value; },
+          "c·x (nan unless optimal or stopped)")
+      .def_property_readonly(
+          "duals", [](const lp::Result& r) { return vector_or_none(r.duals); },
+          "λ >= 0 with Aᵀλ = c, one per row (None when not provided)")
+      .def_property_readonly(
+          "ray", [](const lp::Result& r) { return vector_or_none(r.ray); },
+          "an unbounded direction d (None when the backend gives none)")
+      .def_property_readonly(
+          "farkas", [](const lp::Result& r) { return vector_or_none(r.farkas); },
+          "y >= 0 with Aᵀy = 0, bᵀy < 0 (None when not provided)")
       .def_property_readonly(
           "unbounded_index",
           [](const lp::Result& r) -> py::object {
@@ -36,15 +42,16 @@ void register_lp(py::module_& m) {
 
   m.def(
       "maximize",
-      [](py::object c, py::object A, py::object b, std::optional<std::string> backend,
+      [](py::object c, py::object A, py::object b, py::object backend,
          std::optional<double> threshold) {
         const Matrix Am = to_matrix(A, "A");
         const Vector bv = to_vector(b, "b");
         const Vector cv = to_vector(c, "c");
         lp::SolveOptions options;
         options.threshold = threshold;
+        const std::string name = backend_arg(backend);
         py::gil_scoped_release release;
-        return lp::maximize(cv, Am, bv, backend.value_or(""), options);
+        return lp::maximize(cv, Am, bv, name, options);
       },
       py::arg("c"), py::arg("A"), py::arg("b"), py::kw_only(), py::arg("backend") = py::none(),
       py::arg("threshold") = py::none(),

@@ -24,18 +24,18 @@ PyObject* new_exception(py::module_& m, const char* name, PyObject* bases, const
 void register_errors(py::module_& m) {
   g_corral_error = new_exception(m, "CorralError", PyExc_Exception,
                                  "Base of every exception corral raises on purpose.");
-  py::tuple invalid_bases = py::make_tuple(py::handle(g_corral_error), py::handle(PyExc_ValueError));
+  py::tuple invalid_bases =
+      py::make_tuple(py::handle(g_corral_error), py::handle(PyExc_ValueError));
   g_invalid_input = new_exception(m, "InvalidInputError", invalid_bases.ptr(),
                                   "An argument is malformed; the message names it.");
   g_unbounded_set = new_exception(m, "UnboundedSetError", g_corral_error,
                                   "A routine that needs a bounded set got an unbounded one.");
-  g_not_finitely_determined =
-      new_exception(m, "NotFinitelyDeterminedError", g_corral_error,
-                    "The conditions for finite determination fail.");
+  g_not_finitely_determined = new_exception(m, "NotFinitelyDeterminedError", g_corral_error,
+                                            "The conditions for finite determination fail.");
   g_solver_error = new_exception(m, "SolverError", g_corral_error,
                                  "A solver failed and no fallback could repair it.");
-  g_cancelled = new_exception(m, "CancelledError", g_corral_error,
-                              "A progress callback returned False.");
+  g_cancelled =
+      new_exception(m, "CancelledError", g_corral_error, "A progress callback returned False.");
   py::register_exception_translator([](std::exception_ptr p) {
     try {
       if (p) std::rethrow_exception(p);

@@ -19,16 +19,10 @@ struct CallOptions {
   std::shared_ptr<std::exception_ptr> error = std::make_shared<std::exception_ptr>();
 };
 
-CallOptions make_options(std::optional<std::string> backend, std::optional<double> tol,
-                         py::object progress) {
+CallOptions make_options(py::object backend, py::object tol, py::object progress) {
   CallOptions c;
-  c.options.backend = backend.value_or("");
-  if (!c.options.backend.empty()) lp::capabilities(c.options.backend);  // validates the name
-  if (tol) {
-    if (!(std::isfinite(*tol) && *tol > 0.0 && *tol < 0.1))
-      corral::detail::invalid("tol", "must be a finite number in (0, 0.1)");
-    c.options.tol = *tol;
-  }
+  c.options.backend = backend_arg(backend);
+  c.options.tol = tol_arg(tol);
   if (!progress.is_none() && !PyCallable_Check(progress.ptr()))
     corral::detail::invalid("progress", "must be callable or None");
   c.callback = std::make_shared<py::object>(progress);
@@ -125,30 +119,30 @@ void register_polytope(py::module_& m) {
       .def_property_readonly("num_rows", &Polytope::num_rows)
       .def_property_readonly("source_rows", &Polytope::source_rows)
       .def("_contains_point",
-           [](const Polytope& P, py::object x, std::optional<double> tol) {
-             return P.contains(to_vector(x, "x"), tol.value_or(0.0));
+           [](const Polytope& P, py::object x, py::object tol) {
+             return P.contains(to_vector(x, "x"), tol_arg(tol));
            })
       .def("_contains_points",
-           [](const Polytope& P, py::object X, std::optional<double> tol) {
-             return P.contains_points(to_matrix(X, "x"), tol.value_or(0.0));
+           [](const Polytope& P, py::object X, py::object tol) {
+             return P.contains_points(to_matrix(X, "x"), tol_arg(tol));
            })
       .def(
           "is_empty",
-          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+          [](const Polytope& P, py::object backend, py::object tol) {
             auto c = make_options(backend, tol, py::none());
             return run_released(c, [&] { return P.is_empty(c.options); });
           },
           py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
       .def(
           "is_bounded",
-          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+          [](const Polytope& P, py::object backend, py::object tol) {
             auto c = make_options(backend, tol, py::none());
             return run_released(c, [&] { return P.is_bounded(c.options); });
           },
           py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
       .def(
           "_chebyshev_center",
-          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+          [](const Polytope& P, py::object backend, py::object tol) {
             auto c = make_options(backend, tol, py::none());
             ChebyshevBall ball = run_released(c, [&] { return P.chebyshev_center(c.options); });
             return py::make_tuple(ball.center, ball.radius);
@@ -156,8 +150,7 @@ void register_polytope(py::module_& m) {
           py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
       .def(
           "_support",
-          [](const Polytope& P, py::object D, std::optional<std::string> backend,
-             std::optional<double> tol) {
+          [](const Polytope& P, py::object D, py::object backend, py::object tol) {
             const Matrix Dm = to_matrix(D, "directions");
             auto c = make_options(backend, tol, py::none());
             return run_released(c, [&] { return P.support_many(Dm, c.options); });
@@ -166,23 +159,21 @@ void register_polytope(py::module_& m) {
           py::arg("tol") = py::none())
       .def(
           "bounding_box",
-          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+          [](const Polytope& P, py::object backend, py::object tol) {
             auto c = make_options(backend, tol, py::none());
             return run_released(c, [&] { return P.bounding_box(c.options); });
           },
           py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
       .def(
           "is_subset",
-          [](const Polytope& P, const Polytope& Q, std::optional<std::string> backend,
-             std::optional<double> tol) {
+          [](const Polytope& P, const Polytope& Q, py::object backend, py::object tol) {
             auto c = make_options(backend, tol, py::none());
             return run_released(c, [&] { return P.is_subset(Q, c.options); });
           },
           py::arg("Q"), py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
       .def(
           "same_set",
-          [](const Polytope& P, const Polytope& Q, std::optional<std::string> backend,
-             std::optional<double> tol) {
+          [](const Polytope& P, const Polytope& Q, py::object backend, py::object tol) {
             auto c = make_options(backend, tol, py::none());
             return run_released(c, [&] { return P.same_set(Q, c.options); });
           },
@@ -203,8 +194,8 @@ void register_polytope(py::module_& m) {
           py::arg("M"), py::arg("t") = py::none())
       .def(
           "_irredundant",
-          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol,
-             bool exact, py::object progress) {
+          [](const Polytope& P, py::object backend, py::object tol, bool exact,
+             py::object progress) {
             auto c = make_options(backend, tol, progress);
             Info info;
             Polytope out = run_released(c, [&] { return P.irredundant(c.options, exact, &info); });
@@ -214,8 +205,8 @@ void register_polytope(py::module_& m) {
           py::arg("exact") = false, py::arg("progress") = py::none())
       .def(
           "_redundant_rows",
-          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol,
-             bool exact, py::object progress) {
+          [](const Polytope& P, py::object backend, py::object tol, bool exact,
+             py::object progress) {
             auto c = make_options(backend, tol, progress);
             Info info;
             auto rows = run_released(c, [&] { return P.redundant_rows(c.options, exact, &info); });
@@ -225,7 +216,7 @@ void register_polytope(py::module_& m) {
           py::arg("exact") = false, py::arg("progress") = py::none())
       .def(
           "_affine_hull",
-          [](const Polytope& P, std::optional<std::string> backend, std::optional<double> tol) {
+          [](const Polytope& P, py::object backend, py::object tol) {
             auto c = make_options(backend, tol, py::none());
             AffineHull h = run_released(c, [&] { return P.affine_hull(c.options); });
             return py::make_tuple(h.E, h.e, h.rows);

@@ -3,6 +3,7 @@
 /// Umbrella header: includes every public header of corral.
 
 #include <corral/defaults.hpp>
+#include <corral/enumeration.hpp>
 #include <corral/errors.hpp>
 #include <corral/lp/check.hpp>
 #include <corral/lp/solver.hpp>
@@ -11,6 +12,5 @@
 #include <corral/polytope_queries.hpp>
 #include <corral/rational.hpp>
 #include <corral/redundancy.hpp>
-#include <corral/enumeration.hpp>
 #include <corral/types.hpp>
 #include <corral/version.hpp>

@@ -11,10 +11,10 @@ namespace corral {
 
 /// What a long routine reports to its progress callback.
 struct Progress {
-  std::string stage;  ///< e.g. "redundancy", "implicit equalities"
-  long done = 0;      ///< rows (or steps) decided so far
-  long total = 0;     ///< rows (or steps) to decide
-  long lp_solves = 0; ///< LPs solved so far
+  std::string stage;   ///< e.g. "redundancy", "implicit equalities"
+  long done = 0;       ///< rows (or steps) decided so far
+  long total = 0;      ///< rows (or steps) to decide
+  long lp_solves = 0;  ///< LPs solved so far
 };
 
 /// Progress callback: return false to cancel (the routine then throws CancelledError).
@@ -24,7 +24,7 @@ using ProgressCallback = std::function<bool(const Progress&)>;
 struct Options {
   /// LP backend name (see lp::backends()); empty: lp::default_backend().
   std::string backend;
-  /// Relative tolerance (DESIGN: relative to the set's scale, max |b_i|); 0: default_tol().
+  /// Relative tolerance: absolute slack = tol * the set's scale (max |b_i|); 0: default_tol().
   double tol = 0.0;
   /// Called between LP solves; may be empty.
   ProgressCallback progress;

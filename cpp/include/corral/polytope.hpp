@@ -2,7 +2,7 @@
 /// \file polytope.hpp
 /// `Polytope`: a convex polyhedron in H-representation {x : A x <= b}.
 ///
-/// Storage (DESIGN.md §3):
+/// Storage:
 /// - rows are normalised to unit Euclidean norm on construction, in the order given;
 /// - a zero row is dropped when b >= 0; when b < 0 the set is empty and is stored in the
 ///   canonical empty form: one zero row with right-hand side -1;
@@ -42,9 +42,9 @@ struct RedundancyResult;
 
 /// Implicit equalities of a set: {x : E x = e} is its affine hull (E orthonormal rows).
 struct AffineHull {
-  Matrix E;                  ///< orthonormal rows; 0 rows when the set is full-dimensional
-  Vector e;                  ///< right-hand sides
-  std::vector<Index> rows;   ///< stored rows that hold with equality on the whole set
+  Matrix E;                 ///< orthonormal rows; 0 rows when the set is full-dimensional
+  Vector e;                 ///< right-hand sides
+  std::vector<Index> rows;  ///< stored rows that hold with equality on the whole set
 };
 
 class Polytope {
@@ -148,9 +148,7 @@ class Polytope {
     return s > 0.0 ? s : 1.0;
   }
   /// True when stored in the canonical empty form (found empty without an LP).
-  bool is_trivially_empty() const {
-    return A_.rows() == 1 && b_(0) < 0 && A_.row(0).isZero(0.0);
-  }
+  bool is_trivially_empty() const { return A_.rows() == 1 && b_(0) < 0 && A_.row(0).isZero(0.0); }
 
   // --- queries (one LP or none) -------------------------------------------------------------
   /// Whether x (length dim()) satisfies every row within tol * scale().
@@ -227,7 +225,7 @@ class Polytope {
   std::vector<Index> redundant_rows(const Options& opt = {}, bool exact = false,
                                     Info* info = nullptr) const;
 
-  /// Implicit equalities (DESIGN.md §3): rows tight on the whole set, and the affine hull as
+  /// Implicit equalities: rows tight on the whole set, and the affine hull as
   /// orthonormal equations. Throws InvalidInputError if the set is empty.
   AffineHull affine_hull(const Options& opt = {}) const;
 
@@ -290,6 +288,6 @@ inline Polytope operator&(const Polytope& P, const Polytope& Q) { return P.inter
 
 }  // namespace corral
 
+#include <corral/enumeration.hpp>
 #include <corral/polytope_queries.hpp>
 #include <corral/redundancy.hpp>
-#include <corral/enumeration.hpp>

@@ -46,8 +46,8 @@ inline std::unique_ptr<lp::Solver> chebyshev_solver(const Matrix& A, const Vecto
 
 inline ChebyshevBall Polytope::chebyshev_center(const Options& opt) const {
   if (is_trivially_empty()) detail::invalid("polytope", "the set is empty; it has no centre");
-  auto solver = detail::chebyshev_solver(A_, b_, std::numeric_limits<double>::infinity(),
-                                         opt.backend);
+  auto solver =
+      detail::chebyshev_solver(A_, b_, std::numeric_limits<double>::infinity(), opt.backend);
   const lp::Result r = detail::solve_or_throw(*solver, "the Chebyshev centre");
   if (r.status == lp::Status::unbounded)
     throw UnboundedSetError("polytope: contains balls of any radius; no Chebyshev centre");
@@ -115,8 +115,8 @@ inline std::pair<Vector, Vector> Polytope::bounding_box(const Options& opt) cons
 
 inline bool Polytope::is_subset(const Polytope& Q, const Options& opt) const {
   if (Q.dim() != dim())
-    detail::invalid("Q", "has dimension " + std::to_string(Q.dim()) + ", expected " +
-                             std::to_string(dim()));
+    detail::invalid(
+        "Q", "has dimension " + std::to_string(Q.dim()) + ", expected " + std::to_string(dim()));
   if (is_trivially_empty()) return true;
   if (Q.num_rows() == 0) return true;
   const Vector h = support_many(Q.A(), opt);
@@ -129,8 +129,8 @@ inline bool Polytope::is_subset(const Polytope& Q, const Options& opt) const {
 
 inline Polytope Polytope::intersect(const Polytope& Q) const {
   if (Q.dim() != dim())
-    detail::invalid("Q", "has dimension " + std::to_string(Q.dim()) + ", expected " +
-                             std::to_string(dim()));
+    detail::invalid(
+        "Q", "has dimension " + std::to_string(Q.dim()) + ", expected " + std::to_string(dim()));
   Matrix A(num_rows() + Q.num_rows(), dim());
   Vector b(A.rows());
   A << A_, Q.A();
@@ -160,8 +160,9 @@ inline Polytope Polytope::affine_image(const Matrix& M, const Vector& t) const {
 
 inline Polytope Polytope::preimage(const Matrix& M, const Vector& t) const {
   if (M.rows() != dim() || M.cols() < 1)
-    detail::invalid("M", "must have " + std::to_string(dim()) + " rows and at least one column, got " +
-                             std::to_string(M.rows()) + "x" + std::to_string(M.cols()));
+    detail::invalid("M", "must have " + std::to_string(dim()) +
+                             " rows and at least one column, got " + std::to_string(M.rows()) +
+                             "x" + std::to_string(M.cols()));
   detail::require_finite(M, "M");
   Vector shift = t.size() == 0 ? Vector::Zero(dim()) : t;
   detail::require_length(shift, dim(), "t", "one entry per dimension of the set");
@@ -200,7 +201,8 @@ inline AffineHull Polytope::affine_hull(const Options& opt) const {
     auto solver = lp::make_solver(L, u, c, opt.backend);
     const lp::Result r = detail::solve_or_throw(*solver, "the affine hull");
     if (r.status != lp::Status::optimal)
-      throw SolverError("affine_hull: unexpected LP status " + std::string(lp::to_string(r.status)));
+      throw SolverError("affine_hull: unexpected LP status " +
+                        std::string(lp::to_string(r.status)));
     x = r.x.head(n);
     const double radius = r.x(n);
     if (radius < -t) detail::invalid("polytope", "the set is empty; it has no hull");

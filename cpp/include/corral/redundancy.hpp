@@ -30,11 +30,11 @@ namespace corral {
 
 /// Outcome of remove_redundancy().
 struct RedundancyResult {
-  Polytope set;                 ///< the irredundant set (rows in the original order)
-  std::vector<Index> kept;      ///< stored rows of the input that were kept
-  std::vector<Index> redundant; ///< stored rows of the input that were removed
+  Polytope set;                      ///< the irredundant set (rows in the original order)
+  std::vector<Index> kept;           ///< stored rows of the input that were kept
+  std::vector<Index> redundant;      ///< stored rows of the input that were removed
   std::vector<Index> equality_rows;  ///< stored rows that hold with equality on the whole set
-  bool empty = false;           ///< the set is empty (then `set` is the canonical empty set)
+  bool empty = false;                ///< the set is empty (then `set` is the canonical empty set)
   Info info;
 };
 
@@ -88,7 +88,8 @@ class RedundancyRemover {
       solver->set_objective(c);
       const lp::Result r = solve_or_throw(*solver, "the bounding-box filter");
       info_.count_lp(static_cast<long>(m));
-      if (r.status == lp::Status::optimal) (j < d ? hi_(j) : lo_(j - d)) = j < d ? r.value : -r.value;
+      if (r.status == lp::Status::optimal)
+        (j < d ? hi_(j) : lo_(j - d)) = j < d ? r.value : -r.value;
     }
     for (Index i = 0; i < m; ++i) {
       double hb = 0.0;
@@ -206,7 +207,8 @@ class RedundancyRemover {
     const lp::Result res = solve_or_throw(*s, "redundancy removal");
     info_.count_lp(static_cast<long>(r));
     if (res.status != lp::Status::optimal)
-      throw SolverError("redundancy removal: capped LP is " + std::string(lp::to_string(res.status)));
+      throw SolverError("redundancy removal: capped LP is " +
+                        std::string(lp::to_string(res.status)));
     return res.x;
   }
 
@@ -272,8 +274,8 @@ class RedundancyRemover {
       if (state_[static_cast<size_t>(k)] != kTied) continue;
       std::vector<Index> rows;
       for (Index i = 0; i < G_.rows(); ++i)
-        if (i != k && (state_[static_cast<size_t>(i)] == kFacet ||
-                       state_[static_cast<size_t>(i)] == kTied))
+        if (i != k &&
+            (state_[static_cast<size_t>(i)] == kFacet || state_[static_cast<size_t>(i)] == kTied))
           rows.push_back(i);
       Matrix A(static_cast<Index>(rows.size()) + 1, G_.cols());
       Vector b(A.rows());
@@ -320,8 +322,7 @@ inline std::vector<Index> duplicate_rows(const Matrix& A, const Vector& b, doubl
   size_t g = 0;
   while (g < order.size()) {
     size_t e = g + 1;
-    while (e < order.size() &&
-           (A.row(order[e]) - A.row(order[g])).cwiseAbs().maxCoeff() <= tol)
+    while (e < order.size() && (A.row(order[e]) - A.row(order[g])).cwiseAbs().maxCoeff() <= tol)
       ++e;
     Index keep = order[g];
     for (size_t q = g + 1; q < e; ++q) {
@@ -365,8 +366,7 @@ inline RedundancyResult remove_redundancy(const Polytope& P, const Options& opt 
       }
     }
     out.set = Polytope::from_normalized(A.topRows(k), b.head(k), src, P.caller_row_count());
-    out.info.seconds =
-        std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    out.info.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
   };
   if (P.is_trivially_empty() || m == 0) {
     out.empty = P.is_trivially_empty();
@@ -480,7 +480,9 @@ inline RedundancyResult remove_redundancy(const Polytope& P, const Options& opt 
   for (Index f : facets) is_facet[static_cast<size_t>(f)] = true;
   for (Index q = 0; q < g; ++q)
     if (!is_facet[static_cast<size_t>(q)])
-      keep[static_cast<size_t>(live[static_cast<size_t>(rest[static_cast<size_t>(grow[static_cast<size_t>(q)])])])] = false;
+      keep[static_cast<size_t>(
+          live[static_cast<size_t>(rest[static_cast<size_t>(grow[static_cast<size_t>(q)])])])] =
+          false;
   finish(keep);
   return out;
 }

@@ -73,7 +73,8 @@ CddGenerators generators(const Matrix& A, const Vector& b, bool rationals) {
     }
     if (is_point && rationals) {
       if constexpr (std::is_same_v<T, CddExact>) {
-        for (long j = 0; j < n; ++j) out.exact_points.data.push_back(to_rational(G->matrix[i][j + 1]));
+        for (long j = 0; j < n; ++j)
+          out.exact_points.data.push_back(to_rational(G->matrix[i][j + 1]));
       }
     }
     (is_point ? ip : ir)++;

@@ -92,11 +92,16 @@ class CddSolver final : public SolverBase {
         r.duals = Vector();
       } else {
         r.status = Status::unbounded;
-        r.ray = c_;
       }
       return r;
     }
     Result r = exact_ ? cdd_solve<CddExact>(As_, bs_, c_) : cdd_solve<CddFloat>(As_, bs_, c_);
+    if (!exact_ && r.status == Status::infeasible) {
+      // cddlib's floating point sometimes calls a feasible LP infeasible (badly scaled
+      // columns): confirm with a zero objective, and report a disagreement as numerical.
+      const Result f = cdd_solve<CddFloat>(As_, bs_, Vector::Zero(n_));
+      if (f.status != Status::infeasible) r.status = Status::numerical;
+    }
     if (r.status == Status::unbounded) {
       // cddlib's dual simplex reports dual infeasibility; the LP is unbounded only if it is
       // also primal feasible, which a zero objective decides.

@@ -1,6 +1,6 @@
 // GLPK adapter (backend "glpk"): primal simplex with warm starts between incremental solves.
 //
-// Pitfalls handled here (DESIGN.md §4):
+// Pitfalls handled here:
 // - Thread safety: GLPK keeps one environment per thread only when built with thread-local
 //   storage (glp_config("TLS") != NULL). Otherwise every GLPK call is serialised behind one mutex.
 // - A problem object is created, used and freed on one thread; using it from another throws.
@@ -131,6 +131,7 @@ class GlpkSolver final : public SolverBase {
     parm.msg_lev = GLP_MSG_OFF;
     parm.presolve = GLP_OFF;
     parm.meth = GLP_PRIMAL;
+    const int pivots_before = glp_get_it_cnt(prob_);
     SimplexCall call{prob_, &parm, 0};
     bool ok = run_guarded(call_simplex, &call);
     if (ok && (call.ret == GLP_EBADB || call.ret == GLP_ESING || call.ret == GLP_ECOND ||
@@ -140,10 +141,11 @@ class GlpkSolver final : public SolverBase {
     }
     if (!ok) {
       reset_environment();
-      throw SolverError("glpk: GLPK raised an internal error; its environment on this thread "
-                        "was reset and its problem objects are no longer usable");
+      throw SolverError(
+          "glpk: GLPK raised an internal error; its environment on this thread "
+          "was reset and its problem objects are no longer usable");
     }
-    r.iterations = 0;
+    r.iterations = glp_get_it_cnt(prob_) - pivots_before;
     if (call.ret != 0) {
       r.status = Status::numerical;
       return r;

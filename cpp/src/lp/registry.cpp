@@ -16,11 +16,13 @@ struct BackendEntry {
 
 const BackendEntry kBackends[] = {
     {"glpk", detail::make_glpk_solver, detail::glpk_capabilities},
-    {"cdd", [](const Matrix& A, const Vector& b, const Vector& c) {
+    {"cdd",
+     [](const Matrix& A, const Vector& b, const Vector& c) {
        return detail::make_cdd_solver(A, b, c, false);
      },
      [] { return detail::cdd_capabilities(false); }},
-    {"cdd-exact", [](const Matrix& A, const Vector& b, const Vector& c) {
+    {"cdd-exact",
+     [](const Matrix& A, const Vector& b, const Vector& c) {
        return detail::make_cdd_solver(A, b, c, true);
      },
      [] { return detail::cdd_capabilities(true); }},
@@ -40,8 +42,8 @@ const BackendEntry& find_backend(std::string_view name) {
     if (name == e.name) return e;
   std::string known;
   for (const auto& e : kBackends) known += (known.empty() ? "" : ", ") + std::string(e.name);
-  corral::detail::invalid("backend", "unknown name '" + std::string(name) +
-                                         "'; this build has: " + known);
+  corral::detail::invalid("backend",
+                          "unknown name '" + std::string(name) + "'; this build has: " + known);
 }
 
 }  // namespace

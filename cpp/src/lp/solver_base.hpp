@@ -1,7 +1,9 @@
 #pragma once
 // Shared part of every LP adapter: validation, row scaling, zero rows, trivial cases.
-// Backends see the problem with every non-zero row scaled to unit Euclidean norm (the same set,
-// better conditioned); duals and certificates are mapped back to the caller's rows here.
+// Backends see the problem with every non-zero row divided by the power of two nearest its
+// Euclidean norm: the same set, better conditioned, and exact (a division by a power of two
+// loses nothing, so the exact backend still solves the caller's problem). Duals and
+// certificates are mapped back to the caller's rows here.
 
 #include <corral/detail/validate.hpp>
 #include <corral/lp/solver.hpp>
@@ -40,9 +42,10 @@ class SolverBase : public Solver {
 
   void add_rows(const Matrix& A, const Vector& b) override {
     if (A.cols() != n_)
-      corral::detail::invalid("A", "has " + std::to_string(A.cols()) + " columns, expected " +
-                                       std::to_string(n_));
+      corral::detail::invalid(
+          "A", "has " + std::to_string(A.cols()) + " columns, expected " + std::to_string(n_));
     check_rows(A, b, "A", "b");
+    if (A.rows() == 0) return;
     const Index first = As_.rows();
     append(A, b);
     rows_added(first);
@@ -69,6 +72,8 @@ class SolverBase : public Solver {
   }
 
   Result solve(const SolveOptions& options) override {
+    if (options.threshold && !std::isfinite(*options.threshold))
+      corral::detail::invalid("threshold", "must be finite");
     Result r;
     // A zero row with b < 0 makes the set empty: certificate e_i.
     for (Index i = 0; i < num_rows(); ++i)
@@ -79,8 +84,6 @@ class SolverBase : public Solver {
         r.backend = std::string(backend());
         return r;
       }
-    if (options.threshold && !std::isfinite(*options.threshold))
-      corral::detail::invalid("threshold", "must be finite");
     r = solve_scaled(options);
     r.backend = std::string(backend());
     // Back to the caller's rows: a scaled row is a_i / s_i, so λ_i = μ_i / s_i.
@@ -98,10 +101,10 @@ class SolverBase : public Solver {
   virtual Result solve_scaled(const SolveOptions& options) = 0;
 
   Index n_ = 0;
-  Matrix As_;      // rows scaled to unit norm (zero rows stay zero)
-  Vector bs_;      // scaled right-hand sides
-  Vector b_;       // caller's right-hand sides
-  Vector scale_;   // row norms (1 for zero rows)
+  Matrix As_;     // rows scaled by powers of two to norms in [0.5, 1) (zero rows stay zero)
+  Vector bs_;     // scaled right-hand sides
+  Vector b_;      // caller's right-hand sides
+  Vector scale_;  // row norms (1 for zero rows)
   Eigen::Array<bool, Eigen::Dynamic, 1> zero_;
   Vector c_;
 
@@ -122,8 +125,10 @@ class SolverBase : public Solver {
     for (Index i = 0; i < k; ++i) {
       const double s = A.row(i).stableNorm();
       const bool z = !(s > 0.0);
+      int e = 0;
+      if (!z) std::frexp(s, &e);  // s = f 2^e with f in [0.5, 1)
       zero_(m0 + i) = z;
-      scale_(m0 + i) = z ? 1.0 : s;
+      scale_(m0 + i) = z ? 1.0 : std::ldexp(1.0, e);
       As_.row(m0 + i) = A.row(i) / scale_(m0 + i);
       b_(m0 + i) = b(i);
       bs_(m0 + i) = b(i) / scale_(m0 + i);

@@ -1,8 +1,8 @@
 #pragma once
 /// \file detail/cdd.hpp
-/// Entry points into cddlib (compiled in cpp/src/cdd_polytope.cpp; no cddlib type appears here).
-/// Every call takes the cddlib mutex. Exact variants work in GMP rationals on the exact values
-/// of the given doubles.
+/// Entry points into cddlib (compiled in cpp/src/cdd/cdd_polytope.cpp; no cddlib type appears
+/// here). Every call takes the cddlib mutex. Exact variants work in GMP rationals on the exact
+/// values of the given doubles.
 
 #include <corral/rational.hpp>
 #include <corral/types.hpp>

@@ -17,9 +17,9 @@ void require_finite(const Eigen::DenseBase<Derived>& M, const std::string& name)
   for (Index i = 0; i < M.rows(); ++i)
     for (Index j = 0; j < M.cols(); ++j)
       if (!std::isfinite(M(i, j))) {
-        std::string where = M.cols() == 1 ? "entry " + std::to_string(i)
-                                          : "row " + std::to_string(i) + ", column " +
-                                                std::to_string(j);
+        std::string where = M.cols() == 1
+                                ? "entry " + std::to_string(i)
+                                : "row " + std::to_string(i) + ", column " + std::to_string(j);
         invalid(name, std::string(std::isnan(M(i, j)) ? "NaN" : "inf") + " at " + where);
       }
 }

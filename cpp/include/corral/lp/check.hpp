@@ -16,13 +16,15 @@ namespace corral::lp {
 struct CheckReport {
   bool ok = true;
   std::string failure;
-  double max_primal_violation = 0.0;  ///< max over rows of (a_i·x - b_i) / (|b_i| + ‖a_i‖ ‖x‖ + tiny)
+  double max_primal_violation =
+      0.0;  ///< max over rows of (a_i·x - b_i) / (|b_i| + ‖a_i‖ ‖x‖ + tiny)
 };
 
 /// Checks `result` for max c·x s.t. A x <= b at relative tolerance `tol`:
 /// - primal: a_i·x - b_i <= tol (|b_i| + ‖a_i‖ ‖x‖) for optimal and stopped answers;
-/// - dual (optimal answers with duals): λ_i >= -tol max λ, ‖Aᵀλ - c‖∞ <= tol (1 + ‖c‖∞)
-///   with ‖c‖∞ widened by max |λ_i| ‖a_i‖, λ_i (b_i - a_i·x) <= tol max λ (|b_i| + ‖a_i‖ ‖x‖);
+/// - dual (optimal answers with duals), on μ_i = λ_i ‖a_i‖ (the multipliers of unit rows):
+///   μ_i >= -tol max μ, ‖Aᵀλ - c‖∞ <= tol (1 + ‖c‖∞ + max μ),
+///   μ_i (b_i - a_i·x) / ‖a_i‖ <= tol max μ (|b_i| / ‖a_i‖ + ‖x‖);
 /// - stopped: c·x > threshold is the caller's to check;
 /// - ray (when present): A d <= tol ‖a_i‖ ‖d‖ and c·d > 0;
 /// - Farkas (when present): y >= -tol max y, ‖Aᵀy‖ small, bᵀy < 0.
@@ -58,25 +60,29 @@ inline CheckReport check_answer(const Vector& c, const Matrix& A, const Vector& 
         fail("duals have the wrong length");
         return rep;
       }
-      const double ymax = std::max(y.cwiseAbs().maxCoeff(), 1e-300);
+      // Signs and slackness are judged on μ_i = λ_i ‖a_i‖, the multipliers of the rows scaled
+      // to unit norm, so that rescaling a row does not change the verdict.
+      const Vector mu = y.cwiseProduct(row_norm);
+      const double mmax = std::max(mu.cwiseAbs().maxCoeff(), 1e-300);
       for (Index i = 0; i < m; ++i) {
-        if (y(i) < -tol * ymax) fail("dual negative at row " + std::to_string(i));
-        const double scale = std::abs(b(i)) + row_norm(i) * xn;
-        if (y(i) * slack(i) > tol * ymax * scale + 1e-300)
+        if (mu(i) < -tol * mmax) fail("dual negative at row " + std::to_string(i));
+        const double scale = std::abs(b(i)) / std::max(row_norm(i), 1e-300) + xn;
+        const double unit_slack = slack(i) / std::max(row_norm(i), 1e-300);
+        if (mu(i) * unit_slack > tol * mmax * scale + 1e-300)
           fail("complementary slackness fails at row " + std::to_string(i));
       }
       const Vector r = A.transpose() * y - c;
       const double cscale =
           1.0 + c.cwiseAbs().maxCoeff() + (y.cwiseAbs().cwiseProduct(row_norm)).maxCoeff();
-      if (r.cwiseAbs().maxCoeff() > tol * cscale)
-        fail("stationarity A^T y = c fails");
+      if (r.cwiseAbs().maxCoeff() > tol * cscale) fail("stationarity A^T y = c fails");
     }
   }
   if (result.status == Status::unbounded && result.has_ray()) {
     const Vector& d = result.ray;
     const Vector ad = A * d;
     for (Index i = 0; i < m; ++i)
-      if (ad(i) > tol * row_norm(i) * d.norm()) fail("ray leaves the set at row " + std::to_string(i));
+      if (ad(i) > tol * row_norm(i) * d.norm())
+        fail("ray leaves the set at row " + std::to_string(i));
     if (!(c.dot(d) > 0)) fail("ray does not increase the objective");
   }
   if (result.status == Status::infeasible && result.has_farkas()) {

@@ -32,13 +32,13 @@ const char* to_string(Status status);
 
 /// What a backend can return beyond status, optimiser and value.
 struct Capabilities {
-  bool duals = false;         ///< dual multipliers λ for optimal answers
-  bool ray = false;           ///< an unbounded direction d (A d <= 0, c·d > 0) as a vector
-  bool ray_index = false;     ///< only the index of the variable that proved unboundedness
-  bool farkas = false;        ///< an infeasibility certificate y >= 0, Aᵀy = 0, bᵀy < 0
-  bool early_stop = false;    ///< stops as soon as the objective passes a threshold
-  bool warm_start = false;    ///< keeps its basis between incremental re-solves
-  bool exact = false;         ///< rational arithmetic (answers are rounded to double on return)
+  bool duals = false;       ///< dual multipliers λ for optimal answers
+  bool ray = false;         ///< an unbounded direction d (A d <= 0, c·d > 0) as a vector
+  bool ray_index = false;   ///< only the index of the variable that proved unboundedness
+  bool farkas = false;      ///< an infeasibility certificate y >= 0, Aᵀy = 0, bᵀy < 0
+  bool early_stop = false;  ///< stops as soon as the objective passes a threshold
+  bool warm_start = false;  ///< keeps its basis between incremental re-solves
+  bool exact = false;       ///< rational arithmetic (answers are rounded to double on return)
 };
 
 /// Result of one LP. Fields a backend cannot provide stay empty (size 0 / -1); its
@@ -96,7 +96,7 @@ class Solver {
   virtual Result solve(const SolveOptions& options = {}) = 0;
 };
 
-/// Names of the backends in this build, default first is not implied: see default_backend().
+/// Names of the backends in this build (the default is default_backend()).
 std::vector<std::string> backends();
 
 /// What the named backend provides. Throws InvalidInputError for an unknown name.
