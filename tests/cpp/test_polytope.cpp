@@ -239,8 +239,8 @@ TEST_CASE("polytope: redundant rows and duplicates refer to caller rows") {
   // 4: x + y <= 2.5 (redundant: max x + y = 2), 5: 2x <= 2 (duplicate of 0),
   // 6: 0·x <= 3 (zero row, dropped), 7: x - y <= 1 (weakly redundant: tight at (1, 0)),
   // 8: 0.5 y <= 0.5 (duplicate of 1), 9: -x <= 0.3 (redundant, parallel to 2).
-  const Matrix A = rows({{1, 0}, {0, 1}, {-1, 0}, {0, -1}, {1, 1}, {2, 0}, {0, 0}, {1, -1},
-                         {0, 0.5}, {-1, 0}});
+  const Matrix A =
+      rows({{1, 0}, {0, 1}, {-1, 0}, {0, -1}, {1, 1}, {2, 0}, {0, 0}, {1, -1}, {0, 0.5}, {-1, 0}});
   const Vector b = vec({1, 1, 0, 0, 2.5, 2, 3, 1, 0.5, 0.3});
   const Polytope P(A, b);
   const std::vector<Index> expected_redundant{4, 5, 6, 7, 8, 9};
@@ -329,8 +329,7 @@ TEST_CASE("polytope: flat sets") {
     CHECK(same_points(pt.vertices(), rows({{1, 2, 3}})));
     // The triangle {x >= 0, y >= 0, z >= 0, x + y + z = 1} given by an equality pair, with
     // x <= 1 (weakly redundant) added: vertices e_1, e_2, e_3.
-    const Polytope T(rows({{-1, 0, 0}, {0, -1, 0}, {0, 0, -1}, {1, 1, 1}, {-1, -1, -1},
-                           {1, 0, 0}}),
+    const Polytope T(rows({{-1, 0, 0}, {0, -1, 0}, {0, 0, -1}, {1, 1, 1}, {-1, -1, -1}, {1, 0, 0}}),
                      vec({0, 0, 0, 1, -1, 1}));
     CHECK(T.affine_hull(opt).E.rows() == 1);
     CHECK(sorted(T.affine_hull(opt).rows) == std::vector<Index>{3, 4});
@@ -533,4 +532,61 @@ TEST_CASE("polytope: bad input names the argument") {
   expect_invalid("backend", [&] { sq.chebyshev_center(bad); });
   expect_invalid("tol", [] { corral::set_default_tol(0.5); });
   expect_invalid("tol", [] { corral::set_default_tol(-1.0); });
+}
+
+// Defects found and fixed: these cases keep them fixed.
+
+TEST_CASE("polytope: rows parallel inside the affine hull of flat unbounded sets") {
+  // Flat and unbounded: rows 5, 6 (identical) and 8 give -2x + 2y - z = 2. On that plane
+  // z = -2x + 2y - 2, so row 1 (-2x + 2y + 2z <= 0) reads -x + y <= 2/3 and row 0
+  // (-2x + 2y <= 2) reads -x + y <= 1: row 0 is redundant. Rows 2, 3, 4 are implied too;
+  // the irredundant rows are 1, 5, 7, 8. (The two rows are parallel in the hull only up to
+  // rounding; the cdd-exact LP backend once kept row 0 for lack of a duplicate filter there.)
+  const Polytope P(rows({{-2, 2, 0},
+                         {-2, 2, 2},
+                         {1, 1, -1},
+                         {0, 2, 0},
+                         {2, 0, -1},
+                         {-2, 2, -1},
+                         {-2, 2, -1},
+                         {0, 2, -2},
+                         {2, -2, 1}}),
+                   vec({2, 0, 0, 1, 0, 2, 2, 0, -2}));
+  const std::vector<Index> expected{1, 5, 7, 8};
+  // Rows 2 and 4 give 2x + y - z = -2, so z = 2x + y + 2; then row 0 reads x <= 0, row 1
+  // x <= -4, row 3 x <= -1: only row 1 is needed, and keeping row 0 instead enlarges the set.
+  const Polytope W(rows({{2, 0, 0}, {-1, -1, 1}, {2, 1, -1}, {-2, -2, 2}, {-2, -1, 1}}),
+                   vec({0, -2, -2, 2, 2}));
+  const std::vector<Index> expected_w{1, 2, 4};
+  CHECK(sorted(P.irredundant({}, true).source_rows()) == expected);
+  CHECK(sorted(W.irredundant({}, true).source_rows()) == expected_w);
+  for (const std::string& backend : lp::backends()) {
+    CAPTURE(backend);
+    const Options opt = with_backend(backend);
+    CHECK(sorted(P.irredundant(opt).source_rows()) == expected);
+    CHECK(sorted(W.irredundant(opt).source_rows()) == expected_w);
+    CHECK(W.irredundant(opt).same_set(W));
+  }
+}
+
+TEST_CASE("polytope: exact redundancy removal counts its LPs") {
+  // cddlib solves one LP per row; the Info of the exact path reports them.
+  const Polytope P(rows({{1, 0}, {0, 1}, {-1, 0}, {0, -1}, {1, 1}}), vec({1, 1, 0, 0, 3}));
+  corral::Info info;
+  P.irredundant({}, true, &info);
+  CHECK(info.lp_solves > 0);
+}
+
+TEST_CASE("polytope: flat set with no row outside its affine hull") {
+  // Once crashed (chebyshev_solver read past A when A had 0 rows). The line {x = 1} in R^2 and the
+  // plane {2x + y = 2} in R^3 (with a parallel, redundant 2x + y <= 5): every row is an equality or
+  // parallel to the hull.
+  for (const std::string& backend : lp::backends()) {
+    CAPTURE(backend);
+    const Options opt = with_backend(backend);
+    const Polytope L(rows({{1, 0}, {-1, 0}}), vec({1, -1}));
+    CHECK(sorted(L.irredundant(opt).source_rows()) == std::vector<Index>{0, 1});
+    const Polytope H(rows({{-2, -1, 0}, {2, 1, 0}, {2, 1, 0}}), vec({-2, 2, 5}));
+    CHECK(sorted(H.irredundant(opt).source_rows()) == std::vector<Index>{0, 1});
+  }
 }

@@ -164,9 +164,9 @@ class Polytope {
   /// contains() for each row of X (k points); returns k booleans.
   std::vector<bool> contains_points(const Matrix& X, double tol = 0.0) const {
     if (X.cols() != dim())
-      detail::invalid("points", "have " + std::to_string(X.cols()) + " columns, expected " +
-                                    std::to_string(dim()));
-    detail::require_finite(X, "points");
+      detail::invalid(
+          "x", "has " + std::to_string(X.cols()) + " columns, expected " + std::to_string(dim()));
+    detail::require_finite(X, "x");
     const double t = (tol > 0 ? tol : default_tol()) * scale();
     std::vector<bool> out(static_cast<size_t>(X.rows()));
     for (Index k = 0; k < X.rows(); ++k) {

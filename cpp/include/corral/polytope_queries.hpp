@@ -29,8 +29,8 @@ inline std::unique_ptr<lp::Solver> chebyshev_solver(const Matrix& A, const Vecto
   const bool capped = std::isfinite(cap);
   Matrix L(m + (capped ? 1 : 0), n + 1);
   Vector u(L.rows());
-  L.leftCols(n) = A;
-  L.col(n) = A.rowwise().norm();
+  L.topLeftCorner(m, n) = A;
+  L.col(n).head(m) = A.rowwise().norm();
   u.head(m) = b;
   if (capped) {
     L.row(m).setZero();

@@ -46,7 +46,7 @@ CddGenerators generators(const Matrix& A, const Vector& b, bool rationals) {
   CddGenerators out;
   auto lock = cdd_lock();
   typename T::MatrixPtr M = h_matrix<T>(A, b);
-  typename T::ErrorType err;
+  typename T::ErrorType err = T::kNoError;
   typename T::PolyPtr poly = T::to_poly(M, &err);
   T::free_matrix(M);
   if (poly == nullptr || !T::no_error(err)) {
@@ -95,7 +95,7 @@ CddHull hull(const Matrix& V) {
     T::set(M, i, 0, 1.0);
     for (long j = 0; j < n; ++j) T::set(M, i, j + 1, V(i, j));
   }
-  typename T::ErrorType err;
+  typename T::ErrorType err = T::kNoError;
   typename T::PolyPtr poly = T::to_poly(M, &err);
   T::free_matrix(M);
   if (poly == nullptr || !T::no_error(err)) {
@@ -129,7 +129,7 @@ CddCanonical redundancy(const Matrix& A, const Vector& b) {
   if (m == 0) return out;
   auto lock = cdd_lock();
   typename T::MatrixPtr M = h_matrix<T>(A, b);
-  typename T::ErrorType err;
+  typename T::ErrorType err = T::kNoError;
   set_type lin = T::implicit_linearity(M, &err);
   bool ok = lin != nullptr && T::no_error(err);
   set_type red = nullptr;
@@ -159,7 +159,7 @@ CddCanonical canonicalize(const Matrix& A, const Vector& b) {
   typename T::MatrixPtr M = h_matrix<T>(A, b);
   set_type lin = nullptr, red = nullptr;
   typename T::RowIndex pos = nullptr;
-  typename T::ErrorType err;
+  typename T::ErrorType err = T::kNoError;
   const bool ok = T::canonicalize(&M, &lin, &red, &pos, &err) && T::no_error(err);
   if (ok) {
     for (long i = 1; i <= m; ++i) {
@@ -201,7 +201,7 @@ std::vector<Index> cdd_redundant_rows_via_shooting(const Matrix& A, const Vector
   if (A.rows() == 0) return out;
   auto lock = cdd_lock();
   ddf_MatrixPtr M = h_matrix<CddFloat>(A, b);
-  ddf_ErrorType err;
+  ddf_ErrorType err = ddf_NoError;  // cddlib writes it only on failure
   set_type red = ddf_RedundantRowsViaShooting(M, &err);
   const bool ok = red != nullptr && err == ddf_NoError;
   if (ok)

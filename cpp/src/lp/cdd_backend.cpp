@@ -40,7 +40,7 @@ Result cdd_solve(const Matrix& A, const Vector& b, const Vector& c) {
   }
   T::set_obj(M, 0, 0.0);
   for (long j = 0; j < n; ++j) T::set_obj(M, j + 1, c(j));
-  typename T::ErrorType err;
+  typename T::ErrorType err = T::kNoError;
   typename T::LPPtr lp = T::to_lp(M, &err);
   T::free_matrix(M);
   if (lp == nullptr || !T::no_error(err)) {
