@@ -7,6 +7,8 @@
 
 #include <doctest/doctest.h>
 
+#include "test_helpers.hpp"
+
 #include <corral/errors.hpp>
 #include <corral/lp/check.hpp>
 #include <corral/lp/solver.hpp>
@@ -26,30 +28,13 @@ namespace {
 using corral::Index;
 using corral::Matrix;
 using corral::Vector;
+using corral::test::rows;
+using corral::test::vec;
+using corral::test::vstack;
 namespace lp = corral::lp;
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 constexpr double kInf = std::numeric_limits<double>::infinity();
-
-Matrix rows(std::initializer_list<std::initializer_list<double>> init) {
-  const Index m = static_cast<Index>(init.size());
-  const Index n = m > 0 ? static_cast<Index>(init.begin()->size()) : 0;
-  Matrix A(m, n);
-  Index i = 0;
-  for (const auto& r : init) {
-    Index j = 0;
-    for (double v : r) A(i, j++) = v;
-    ++i;
-  }
-  return A;
-}
-
-Vector vec(std::initializer_list<double> init) {
-  Vector v(static_cast<Index>(init.size()));
-  Index i = 0;
-  for (double x : init) v(i++) = x;
-  return v;
-}
 
 // Uniform numbers from std::mt19937 directly (its output is fully specified by the standard,
 // unlike the standard distributions), so the random LPs are the same with every library.
@@ -94,17 +79,6 @@ double box_max(const Vector& c, const Vector& lower, const Vector& upper) {
   double v = 0.0;
   for (Index j = 0; j < c.size(); ++j) v += c(j) > 0 ? c(j) * upper(j) : c(j) * lower(j);
   return v;
-}
-
-Matrix vstack(const Matrix& A, const Matrix& B) {
-  Matrix C(A.rows() + B.rows(), std::max(A.cols(), B.cols()));
-  C << A, B;
-  return C;
-}
-Vector vstack(const Vector& a, const Vector& b) {
-  Vector c(a.size() + b.size());
-  c << a, b;
-  return c;
 }
 
 // Independent check of an optimal answer, written without check_answer():

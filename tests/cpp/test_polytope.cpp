@@ -8,6 +8,8 @@
 
 #include <doctest/doctest.h>
 
+#include "test_helpers.hpp"
+
 #include <corral/errors.hpp>
 #include <corral/lp/solver.hpp>
 #include <corral/polytope.hpp>
@@ -26,43 +28,14 @@ using corral::Matrix;
 using corral::Options;
 using corral::Polytope;
 using corral::Vector;
+using corral::test::rows;
+using corral::test::vec;
+using corral::test::vstack;
 namespace lp = corral::lp;
 
 constexpr double kInf = std::numeric_limits<double>::infinity();
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 const double kPi = std::acos(-1.0);
-
-Matrix rows(std::initializer_list<std::initializer_list<double>> init) {
-  const Index m = static_cast<Index>(init.size());
-  const Index n = m > 0 ? static_cast<Index>(init.begin()->size()) : 0;
-  Matrix A(m, n);
-  Index i = 0;
-  for (const auto& r : init) {
-    Index j = 0;
-    for (double v : r) A(i, j++) = v;
-    ++i;
-  }
-  return A;
-}
-
-Vector vec(std::initializer_list<double> init) {
-  Vector v(static_cast<Index>(init.size()));
-  Index i = 0;
-  for (double x : init) v(i++) = x;
-  return v;
-}
-
-Matrix vstack(const Matrix& A, const Matrix& B) {
-  Matrix C(A.rows() + B.rows(), std::max(A.cols(), B.cols()));
-  C << A, B;
-  return C;
-}
-
-Vector vstack(const Vector& a, const Vector& b) {
-  Vector c(a.size() + b.size());
-  c << a, b;
-  return c;
-}
 
 Options with_backend(const std::string& backend) {
   Options o;
