@@ -11,10 +11,11 @@
 ///    (2d LPs over all rows);
 /// 4. ray shooting from x0 in random directions: the first row a ray meets, when it meets one
 ///    row alone, is a facet;
-/// 5. Clarkson's loop, rows taken grouped by their nearest known facet: for each undecided row k,
-/// max a_k·x over the facets found so far;
-///    value <= b_k: redundant; else shoot from x0 towards the optimiser, and the first row
-///    met is a new facet (repeat for k). Each LP has only the facets found so far as rows.
+/// 5. Clarkson's loop, rows taken grouped by their nearest known facet: for each undecided
+///    row k, max a_k·x over the facets found so far, solved by row generation on a working set
+///    of the 2d + 2 facets nearest to a_k (violated facets join until the optimum satisfies
+///    them all); value <= b_k: redundant; else shoot from x0 towards the optimiser, and the
+///    first row met is a new facet (repeat for k).
 /// Rows met by a ray together with others (ties) are added too and checked by one LP each at
 /// the end. Tolerance: absolute tol * scale(), scale() = max |b_i|.
 ///
@@ -226,11 +227,9 @@ class RedundancyRemover {
       ++done;
       if ((done & 63) == 0) report(done, static_cast<long>(m));
       while (state_[static_cast<size_t>(k)] == kUndecided) {
-        solver_->set_objective(G_.row(k).transpose());
         lp::SolveOptions so;
         so.threshold = h_(k) + tol_;
-        const lp::Result r = solve_or_throw(*solver_, "redundancy removal", so);
-        info_.count_lp(static_cast<long>(solver_->num_rows()));
+        const lp::Result r = solve_over_known(k, so);
         if (r.status == lp::Status::infeasible)
           throw SolverError("redundancy removal: the facets found so far are infeasible");
         if (!r.exceeds(h_(k) + tol_)) {
@@ -268,6 +267,58 @@ class RedundancyRemover {
       }
     }
     report(static_cast<long>(m), static_cast<long>(m));
+  }
+
+  // max g_k·z over the rows in the LP, by row generation on a small working set: it starts with
+  // the 2d + 2 rows nearest to g_k in direction. An optimum of the working set that satisfies
+  // every row of the LP is optimal for all of them (a relaxation's optimum that is feasible);
+  // otherwise the most violated rows join and the working set is solved again (warm). A
+  // working-set maximum <= h_k already proves row k redundant: fewer rows only raise it.
+  lp::Result solve_over_known(Index k, const lp::SolveOptions& so) {
+    const Index d = G_.cols();
+    std::vector<Index> known;
+    for (Index i = 0; i < G_.rows(); ++i)
+      if (in_lp_[static_cast<size_t>(i)]) known.push_back(i);
+    const Index start = 2 * d + 2;
+    if (static_cast<Index>(known.size()) > 2 * start) {
+      std::vector<std::pair<double, Index>> near;
+      near.reserve(known.size());
+      for (Index i : known) near.emplace_back(-G_.row(k).dot(G_.row(i)), i);
+      std::partial_sort(near.begin(), near.begin() + start, near.end());
+      Matrix S(start, d);
+      Vector hs(start);
+      for (Index q = 0; q < start; ++q) {
+        S.row(q) = G_.row(near[static_cast<size_t>(q)].second);
+        hs(q) = h_(near[static_cast<size_t>(q)].second);
+      }
+      auto ws = lp::make_solver(S, hs, G_.row(k).transpose(), opt_.backend);
+      for (int round = 0; round < 8; ++round) {
+        const lp::Result r = solve_or_throw(*ws, "redundancy removal", so);
+        info_.count_lp(static_cast<long>(ws->num_rows()));
+        if (r.status == lp::Status::unbounded || r.status == lp::Status::infeasible) break;
+        if (!r.exceeds(*so.threshold)) return r;
+        std::vector<std::pair<double, Index>> violated;
+        for (Index i : known) {
+          const double v = G_.row(i).dot(r.x) - h_(i);
+          if (v > tol_) violated.emplace_back(-v, i);
+        }
+        if (violated.empty()) return r;
+        std::sort(violated.begin(), violated.end());
+        const Index add = std::min<Index>(d, static_cast<Index>(violated.size()));
+        Matrix Ga(add, d);
+        Vector ha(add);
+        for (Index q = 0; q < add; ++q) {
+          Ga.row(q) = G_.row(violated[static_cast<size_t>(q)].second);
+          ha(q) = h_(violated[static_cast<size_t>(q)].second);
+        }
+        ws->add_rows(Ga, ha);
+      }
+    }
+    // Few rows, or the working set did not settle: solve over every row of the LP.
+    solver_->set_objective(G_.row(k).transpose());
+    const lp::Result r = solve_or_throw(*solver_, "redundancy removal", so);
+    info_.count_lp(static_cast<long>(solver_->num_rows()));
+    return r;
   }
 
   // Undecided rows grouped under the known facet nearest in direction (largest g_k·g_f), and
