@@ -1,9 +1,14 @@
-// Redundancy removal benchmark: corral's remove_redundancy (backend glpk) against three
-// baselines measured in the same run on the same instances:
+// Redundancy removal benchmark: corral's remove_redundancy on the default LP backend
+// (corral::lp::default_backend(), "dense" unless changed) against baselines measured in the
+// same run on the same instances:
+//   corral-glpk the same call with Options::backend = "glpk" (the speed-up of the default
+//               backend over GLPK inside redundancy removal)
 //   cdd-canon   cddlib's floating-point canonicalisation (ddf_MatrixCanonicalize)
 //   cdd-shoot   cddlib's floating-point ray-shooting redundancy test
 //   glpk-loop   one LP per row, written here against GLPK's C API
-// See benchmarks/README.md ("bench_redundancy") for how to run it and read the table.
+// Both corral runs report Info::fallbacks (LP answers that failed verification and were
+// re-solved by another backend; target 0). See benchmarks/README.md ("bench_redundancy") for
+// how to run it and read the table.
 //
 // Instances (reproducible from --seed): in R^n, K = 20 n random unit normals a_i with
 // offset 1 (each hyperplane touches the unit sphere at a_i, so every one is a facet), then
@@ -208,13 +213,15 @@ struct Outcome {
   long wrong_kept = 0;  // kept rows that are redundant (not a facet nor a copy of one)
   long missing = 0;     // facets none of whose rows was kept
   long extra = 0;       // extra rows kept for a facet already represented
-  long lp_solves = -1;  // corral only
+  long lp_solves = -1;  // corral and corral-glpk only
   double mean_lp_rows = -1;
-  long fallbacks = -1;
-  long equalities = 0;   // cdd-canon: rows it declared implicit equalities (none expected)
-  long lp_failures = 0;  // glpk-loop: LPs that did not end optimal (their row is kept)
-  double estimate = 0;   // kSkipped: estimated seconds, 0 if none
-  int runs = 0;          // timed runs behind `seconds` (their median)
+  long fallbacks = -1;      // Info::fallbacks of one run (the largest over the timed runs)
+  long fallbacks_all = -1;  // Info::fallbacks summed over the timed runs
+  long equalities = 0;      // cdd-canon: rows it declared implicit equalities (none expected)
+  long lp_failures = 0;     // glpk-loop: LPs that did not end optimal (their row is kept)
+  double estimate = 0;      // kSkipped: estimated seconds, 0 if none
+  int runs = 0;             // timed runs behind `seconds` (their median)
+  char backend[32] = {0};   // corral runs: the LP backend used
   char message[240] = {0};
 
   bool agrees(Index K) const {
@@ -251,10 +258,13 @@ std::vector<char> keep_all_but(Index m, const std::vector<Index>& removed) {
 
 // ---------------------------------------------------------------------------------------------
 // Methods.
-Outcome run_corral(const Instance& I) {
+// backend empty: the process default (corral::lp::default_backend()).
+Outcome run_corral(const Instance& I, const std::string& backend) {
   Outcome o;
   corral::Options opt;
-  opt.backend = "glpk";
+  opt.backend = backend;
+  std::snprintf(o.backend, sizeof o.backend, "%s",
+                (backend.empty() ? corral::lp::default_backend() : backend).c_str());
   const auto t0 = Clock::now();
   const corral::Polytope P(I.A, I.b);
   const corral::RedundancyResult r = corral::remove_redundancy(P, opt, false);
@@ -264,7 +274,7 @@ Outcome run_corral(const Instance& I) {
   judge(I, keep, o);
   o.lp_solves = r.info.lp_solves;
   o.mean_lp_rows = r.info.mean_lp_rows;
-  o.fallbacks = r.info.fallbacks;
+  o.fallbacks = o.fallbacks_all = r.info.fallbacks;
   if (r.empty) set_message(o, "corral reported an empty set");
   return o;
 }
@@ -355,14 +365,16 @@ struct MethodSpec {
 
 std::vector<MethodSpec> all_methods() {
   return {
-      {"corral", run_corral, 1.0},
+      {"corral", [](const Instance& I) { return run_corral(I, ""); }, 1.0},
+      {"corral-glpk", [](const Instance& I) { return run_corral(I, "glpk"); }, 1.0},
       {"cdd-canon", run_cdd_canon, 1.5},  // measured 5^1.4 .. 5^1.6 from m = 1000 to 5000
       {"cdd-shoot", run_cdd_shoot, 1.0},  // LPs over the rows found so far, like corral's
       {"glpk-loop", [](const Instance& I) { return run_glpk_loop(I, false); }, 2.0},
       {"glpk-loop-restore", [](const Instance& I) { return run_glpk_loop(I, true); }, 2.0},
   };
 }
-const std::vector<std::string> kDefaultMethods = {"corral", "cdd-canon", "cdd-shoot", "glpk-loop"};
+const std::vector<std::string> kDefaultMethods = {"corral", "corral-glpk", "cdd-canon", "cdd-shoot",
+                                                  "glpk-loop"};
 
 // ---------------------------------------------------------------------------------------------
 // Running a method in a child process killed at the cap.
@@ -563,7 +575,9 @@ void write_json(const Config& cfg, const std::vector<Case>& cases, double total_
   f << "  \"forked\": " << (cfg.use_fork ? "true" : "false") << ",\n";
   f << "  \"corral_version\": \"" << corral::version << "\",\n";
   f << "  \"glpk_version\": \"" << glp_version() << "\",\n";
-  f << "  \"reference\": \"corral\",\n";
+  f << "  \"default_backend\": \"" << json_escape(corral::lp::default_backend()) << "\",\n";
+  f << "  \"reference\": \"corral\", \"reference_backend\": \""
+    << json_escape(corral::lp::default_backend()) << "\",\n";
   f << "  \"ratio\": \"baseline seconds / corral seconds (above 1: corral faster)\",\n";
   f << "  \"machine\": {\"cpu\": \"" << json_escape(cpu_model())
     << "\", \"cores\": " << std::thread::hardware_concurrency() << ", \"compiler\": \""
@@ -597,9 +611,10 @@ void write_json(const Config& cfg, const std::vector<Case>& cases, double total_
           << ", \"wrong_kept\": " << o.wrong_kept << ", \"missing_facets\": " << o.missing
           << ", \"extra_copies\": " << o.extra;
         if (o.lp_solves >= 0)
-          f << ", \"lp_solves\": " << o.lp_solves
+          f << ", \"backend\": \"" << json_escape(o.backend) << "\", \"lp_solves\": " << o.lp_solves
             << ", \"mean_lp_rows\": " << json_num(o.mean_lp_rows)
-            << ", \"fallbacks\": " << o.fallbacks;
+            << ", \"fallbacks\": " << o.fallbacks
+            << ", \"fallbacks_all_runs\": " << o.fallbacks_all;
         if (name == "cdd-canon") f << ", \"equalities\": " << o.equalities;
         if (name.rfind("glpk-loop", 0) == 0) f << ", \"lp_failures\": " << o.lp_failures;
         if (ref != C.out.end() && ref->second.status == kDone && name != "corral")
@@ -617,22 +632,71 @@ void write_json(const Config& cfg, const std::vector<Case>& cases, double total_
   f << "  ]\n}\n";
 }
 
+// Fallback count of a corral run as a table cell.
+std::string fallback_cell(const Outcome& o) {
+  return o.status == kDone && o.fallbacks >= 0 ? std::to_string(o.fallbacks) : "-";
+}
+
+std::string case_name(const Instance& I) {
+  return "m=" + std::to_string(I.m) + " n=" + std::to_string(I.n);
+}
+
+const Case* find_case(const std::vector<Case>& cases, Index m, Index n) {
+  for (const Case& C : cases)
+    if (C.inst.m == m && C.inst.n == n) return &C;
+  return nullptr;
+}
+
+// One target line: corral at least `factor` times faster than `base` at (m, n).
+void print_target(const std::vector<Case>& cases, const std::string& base, double factor, Index m,
+                  Index n) {
+  const std::string what = ">= " + fmt("%g", factor) + "x " + base + " at m=" + std::to_string(m) +
+                           " n=" + std::to_string(n);
+  const Case* C = find_case(cases, m, n);
+  if (C == nullptr) {
+    std::printf("  %s: not measured (this run has no such case)\n", what.c_str());
+    return;
+  }
+  const auto b = C->out.find(base);
+  const Outcome& r = C->out.at("corral");
+  if (b == C->out.end()) {
+    std::printf("  %s: not measured (%s not in --methods)\n", what.c_str(), base.c_str());
+    return;
+  }
+  if (r.status != kDone) {
+    std::printf("  %s: not measured (corral %s)\n", what.c_str(), status_name(r.status));
+    return;
+  }
+  const Outcome& o = b->second;
+  std::string verdict;
+  if (o.status == kDone) verdict = o.seconds / r.seconds >= factor ? "met" : "MISSED";
+  else if (o.status == kCapped)
+    verdict = o.seconds / r.seconds >= factor ? "met (" + base + " hit the cap)"
+                                              : "undecided (" + base + " hit the cap; raise --cap)";
+  else if (o.status == kSkipped)
+    verdict = "undecided (" + base + " skipped; raise --cap or use --no-skip)";
+  else verdict = std::string("not measured (") + base + " " + status_name(o.status) + ")";
+  std::printf("  %s: ratio %s -> %s\n", what.c_str(), ratio_cell(o, r).c_str(), verdict.c_str());
+}
+
 void print_table(const Config& cfg, const std::vector<Case>& cases) {
   auto has = [&](const std::string& m) {
     return std::find(cfg.methods.begin(), cfg.methods.end(), m) != cfg.methods.end();
   };
   std::vector<std::string> base;
-  for (const char* b : {"cdd-canon", "cdd-shoot", "glpk-loop", "glpk-loop-restore"})
+  for (const char* b : {"corral-glpk", "cdd-canon", "cdd-shoot", "glpk-loop", "glpk-loop-restore"})
     if (has(b)) base.push_back(b);
   std::printf(
-      "\nredundancy removal, seed %llu, cap %.0f s; times in seconds; ratio = baseline / "
-      "corral (above 1: corral faster)\n",
-      static_cast<unsigned long long>(cfg.seed), cfg.cap);
-  std::string head = "      m   n    K |   corral   LPs  meanrows  <=1.5K+n";
+      "\nredundancy removal, seed %llu, cap %.0f s; corral on LP backend %s (the default), "
+      "corral-glpk on glpk;\ntimes in seconds; ratio = baseline / corral (above 1: corral "
+      "faster); fb = Info::fallbacks per run (target 0)\n",
+      static_cast<unsigned long long>(cfg.seed), cfg.cap, corral::lp::default_backend().c_str());
+  std::string head = "      m   n    K |   corral   LPs  meanrows  <=1.5K+n  fb";
   for (const auto& b : base) {
     char buf[96];
     std::snprintf(buf, sizeof buf, " | %17s  ratio", b.c_str());
     head += buf;
+    if (b == "corral-glpk") head += "  fb";
   }
   head += " | agree";
   std::printf("%s\n%s\n", head.c_str(), std::string(head.size(), '-').c_str());
@@ -646,6 +710,7 @@ void print_table(const Config& cfg, const std::vector<Case>& cases) {
       std::printf(" %5ld  %8.1f  %-8s", r.lp_solves, r.mean_lp_rows,
                   r.mean_lp_rows <= mean_rows_bound(I) ? "yes" : "NO");
     else std::printf(" %5s  %8s  %-8s", "-", "-", "-");
+    std::printf("  %2s", fallback_cell(r).c_str());
     std::string agree;
     for (const auto& [name, o] : C.out) {
       if (o.status == kDone && !o.agrees(I.K)) {
@@ -659,51 +724,51 @@ void print_table(const Config& cfg, const std::vector<Case>& cases) {
         notes.push_back(buf);
       }
       if (o.status == kError || o.status == kCrashed)
-        notes.push_back("m=" + std::to_string(I.m) + " n=" + std::to_string(I.n) + " " + name +
-                        ": " + status_name(o.status) + ": " + o.message);
+        notes.push_back(case_name(I) + " " + name + ": " + status_name(o.status) + ": " +
+                        o.message);
       else if (o.message[0] && o.status != kSkipped)
-        notes.push_back("m=" + std::to_string(I.m) + " n=" + std::to_string(I.n) + " " + name +
-                        ": " + o.message);
+        notes.push_back(case_name(I) + " " + name + ": " + o.message);
       if (o.lp_failures > 0)
-        notes.push_back("m=" + std::to_string(I.m) + " n=" + std::to_string(I.n) + " " + name +
-                        ": " + std::to_string(o.lp_failures) + " LPs not optimal (rows kept)");
+        notes.push_back(case_name(I) + " " + name + ": " + std::to_string(o.lp_failures) +
+                        " LPs not optimal (rows kept)");
+      if (o.status == kDone && o.fallbacks_all > 0)
+        notes.push_back(case_name(I) + " " + name + " (backend " + o.backend +
+                        "): " + std::to_string(o.fallbacks_all) + " fallbacks in " +
+                        std::to_string(o.runs) + " runs");
     }
     for (const auto& b : base) {
       const auto it = C.out.find(b);
       if (it == C.out.end()) {
         std::printf(" | %17s  %5s", "-", "-");
+        if (b == "corral-glpk") std::printf("  %2s", "-");
         continue;
       }
       std::printf(" | %17s  %5s", time_cell(it->second).c_str(), ratio_cell(it->second, r).c_str());
+      if (b == "corral-glpk") std::printf("  %2s", fallback_cell(it->second).c_str());
     }
     std::printf(" | %s\n", agree.empty() ? "all" : ("MISMATCH: " + agree).c_str());
   }
   for (const Case& C : cases)
     for (const auto& [name, o] : C.out)
       if (o.status == kSkipped)
-        notes.push_back("m=" + std::to_string(C.inst.m) + " n=" + std::to_string(C.inst.n) + " " +
-                        name + " skipped: " + o.message);
+        notes.push_back(case_name(C.inst) + " " + name + " skipped: " + o.message);
   if (!notes.empty()) {
     std::printf("\nnotes:\n");
     for (const auto& s : notes) std::printf("  %s\n", s.c_str());
   }
+  // Fallbacks over every timed corral run (corral and corral-glpk).
+  long fb = 0, fb_runs = 0;
+  for (const Case& C : cases)
+    for (const auto& [name, o] : C.out)
+      if (o.status == kDone && o.fallbacks_all >= 0) {
+        fb += o.fallbacks_all;
+        fb_runs += o.runs;
+      }
+  std::printf("\nfallbacks: %ld in %ld runs (target 0)\n", fb, fb_runs);
   // Targets (reported, never asserted).
   std::printf("\ntargets:\n");
-  for (const Case& C : cases) {
-    if (C.inst.m != 5000 || C.inst.n != 6) continue;
-    const auto b = C.out.find("cdd-canon");
-    const Outcome& r = C.out.at("corral");
-    if (b == C.out.end() || r.status != kDone) continue;
-    std::string verdict;
-    if (b->second.status == kDone) verdict = b->second.seconds / r.seconds >= 30 ? "met" : "MISSED";
-    else if (b->second.status == kCapped)
-      verdict = b->second.seconds / r.seconds >= 30
-                    ? "met (cdd-canon hit the cap)"
-                    : "undecided (cdd-canon hit the cap; raise --cap)";
-    else verdict = "not measured";
-    std::printf("  >= 30x cdd-canon at m=5000 n=6: ratio %s -> %s\n",
-                ratio_cell(b->second, r).c_str(), verdict.c_str());
-  }
+  print_target(cases, "cdd-canon", 200, 5000, 6);
+  print_target(cases, "cdd-shoot", 10, 5000, 6);
   long ok = 0, total = 0;
   for (const Case& C : cases) {
     const Outcome& r = C.out.at("corral");
@@ -712,6 +777,20 @@ void print_table(const Config& cfg, const std::vector<Case>& cases) {
     ok += r.mean_lp_rows <= mean_rows_bound(C.inst) ? 1 : 0;
   }
   std::printf("  corral mean LP rows <= 1.5 K + n: %ld of %ld cases\n", ok, total);
+  if (const Case* C = find_case(cases, 20000, 10)) {
+    const Outcome& r = C->out.at("corral");
+    std::string line = "  report: corral at m=20000 n=10: " + time_cell(r) +
+                       (r.status == kDone ? " s" : "") + " (backend " + r.backend + ")";
+    for (const MethodSpec& s : all_methods()) {
+      const auto it = C->out.find(s.name);
+      if (s.name == "corral" || it == C->out.end()) continue;
+      const Outcome& o = it->second;
+      if (o.status == kDone || o.status == kCapped)
+        line += "; " + s.name + " " + time_cell(o) + (o.status == kDone ? " s" : "") + ", ratio " +
+                ratio_cell(o, r);
+    }
+    std::printf("%s\n", line.c_str());
+  }
 }
 
 std::vector<Index> parse_list(const std::string& s) {
@@ -731,14 +810,15 @@ std::vector<Index> parse_list(const std::string& s) {
 
 void usage() {
   std::printf(
-      "bench_redundancy: corral's redundancy removal against cddlib and a one-LP-per-row GLPK "
-      "loop\n\n"
+      "bench_redundancy: corral's redundancy removal (default LP backend) against itself on GLPK,\n"
+      "cddlib and a one-LP-per-row GLPK loop\n\n"
       "  --m LIST        rows, comma separated (default 1000,5000,20000)\n"
       "  --n LIST        dimensions (default 3,6,10)\n"
       "  --seed S        instance seed (default 1)\n"
       "  --cap SECONDS   time cap per run; a run past it is killed (default 60)\n"
-      "  --methods LIST  any of corral,cdd-canon,cdd-shoot,glpk-loop,glpk-loop-restore\n"
-      "                  (default corral,cdd-canon,cdd-shoot,glpk-loop; corral is always run)\n"
+      "  --methods LIST  any of corral,corral-glpk,cdd-canon,cdd-shoot,glpk-loop,\n"
+      "                  glpk-loop-restore (default corral,corral-glpk,cdd-canon,cdd-shoot,\n"
+      "                  glpk-loop; corral, on the default backend, is always run)\n"
       "  --repeats R     runs of each method and case faster than --repeat-below; the median\n"
       "                  time is reported (default 3)\n"
       "  --repeat-below SECONDS  (default 2)\n"
@@ -805,9 +885,11 @@ int main(int argc, char** argv) {
     return 2;
   }
   const auto t_all = Clock::now();
-  std::printf("bench_redundancy: corral %s, GLPK %s, seed %llu, cap %.0f s, %s\n", corral::version,
-              glp_version(), static_cast<unsigned long long>(cfg.seed), cfg.cap,
-              cfg.use_fork ? "each run in a child process" : "in process (no cap)");
+  std::printf(
+      "bench_redundancy: corral %s (default LP backend %s), GLPK %s, seed %llu, cap %.0f s, %s\n",
+      corral::version, corral::lp::default_backend().c_str(), glp_version(),
+      static_cast<unsigned long long>(cfg.seed), cfg.cap,
+      cfg.use_fork ? "each run in a child process" : "in process (no cap)");
   std::fflush(stdout);
   const std::vector<MethodSpec> specs = all_methods();
   struct Last {
@@ -847,19 +929,33 @@ int main(int argc, char** argv) {
           }
           if (o.status != kSkipped) {
             std::vector<double> times;
+            long fb_max = -1, fb_sum = 0;
             for (int rep = 0; rep < cfg.repeats; ++rep) {
               o = run_capped(s.run, I, cfg.cap, cfg.use_fork);
               if (o.status != kDone) break;
               times.push_back(o.seconds);
+              if (o.fallbacks >= 0) {
+                fb_max = std::max(fb_max, o.fallbacks);
+                fb_sum += o.fallbacks;
+              }
               if (o.seconds >= cfg.repeat_below) break;  // slow runs: once is enough
             }
             o.runs = static_cast<int>(times.size());
             if (o.status == kDone) o.seconds = median(times);
+            if (o.status == kDone && o.fallbacks >= 0) {
+              o.fallbacks = fb_max;
+              o.fallbacks_all = fb_sum;
+            }
             if (o.status == kDone || o.status == kCapped)
               last[{s.name, n}] = Last{m, o.seconds, o.status == kCapped};
           }
-          std::fprintf(stderr, "  %-17s %s%s%s\n", s.name.c_str(), time_cell(o).c_str(),
+          std::fprintf(stderr, "  %-17s %s%s%s%s\n", s.name.c_str(), time_cell(o).c_str(),
                        o.runs > 1 ? (" (median of " + std::to_string(o.runs) + ")").c_str() : "",
+                       o.status == kDone && o.fallbacks >= 0
+                           ? ("  [" + std::string(o.backend) + ", " +
+                              std::to_string(o.fallbacks_all) + " fallbacks]")
+                                 .c_str()
+                           : "",
                        o.status == kDone && !o.agrees(I.K) ? "  (count mismatch)" : "");
           C.out[s.name] = o;
         }

@@ -22,7 +22,9 @@ from ._core import (
     backends,
     default_backend,
     default_tol,
+    lp_verify_tolerance,
     maximize,
+    set_lp_verify_tolerance,
 )
 from ._polytope import ChebyshevBall, Info
 
@@ -42,8 +44,10 @@ __all__ = [
     "backends",
     "default_backend",
     "default_tol",
+    "lp_verify_tolerance",
     "maximize",
     "set_defaults",
+    "set_lp_verify_tolerance",
 ]
 
 

@@ -33,6 +33,9 @@ void register_lp(py::module_& m) {
           "GLPK's report of unboundedness: a variable index, not a ray (None otherwise)")
       .def_property_readonly("backend", [](const lp::Result& r) { return r.backend; })
       .def_property_readonly("iterations", [](const lp::Result& r) { return r.iterations; })
+      .def_property_readonly(
+          "fallbacks", [](const lp::Result& r) { return r.fallbacks; },
+          "re-solves by another backend after an answer failed verification (dense backend)")
       .def("__repr__", [](const lp::Result& r) {
         std::string s = std::string("LPResult(status='") + lp::to_string(r.status) + "'";
         if (r.status == lp::Status::optimal || r.status == lp::Status::stopped)
@@ -57,6 +60,10 @@ void register_lp(py::module_& m) {
       py::arg("threshold") = py::none(),
       "Solves max c·x subject to A x <= b (x free) on the named backend or the default.");
 
+  m.def("lp_verify_tolerance", &lp::verify_tolerance,
+        "Relative tolerance at which the dense backend verifies every LP answer (default 1e-9).");
+  m.def("set_lp_verify_tolerance", &lp::set_verify_tolerance, py::arg("tol"),
+        "Sets lp_verify_tolerance() for the process; tol must lie in (0, 1e-3].");
   m.def("backends", &lp::backends, "Names of the LP backends in this build.");
   m.def("default_backend", &lp::default_backend, "Name of the process-wide default backend.");
   m.def("_set_default_backend", [](const std::string& name) { lp::set_default_backend(name); });

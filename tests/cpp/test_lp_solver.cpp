@@ -992,6 +992,54 @@ TEST_CASE("lp: check_answer and the independent KKT check reject wrong answers")
   CHECK_FALSE(lp::check_answer(c, A, b, u).ok);
 }
 
+// Sets lp::verify_tolerance() for one scope and restores it.
+struct VerifyToleranceGuard {
+  double saved = lp::verify_tolerance();
+  explicit VerifyToleranceGuard(double tol) { lp::set_verify_tolerance(tol); }
+  ~VerifyToleranceGuard() { lp::set_verify_tolerance(saved); }
+};
+
+TEST_CASE("lp: the verification tolerance is validated") {
+  CHECK(lp::verify_tolerance() == 1e-9);  // the documented default
+  for (double bad : {0.0, -1e-9, 1e-2, kNaN, kInf}) {
+    CAPTURE(bad);
+    CHECK_THROWS_AS(lp::set_verify_tolerance(bad), corral::InvalidInputError);
+  }
+  CHECK(lp::verify_tolerance() == 1e-9);
+}
+
+TEST_CASE("lp: dense answers that fail verification are re-solved and counted") {
+  // A box {|x_j| <= j}: max (1, 1, 1)·x = 6 (by hand). Normal tolerance: no fallback.
+  const Matrix A = vstack(Matrix(Matrix::Identity(3, 3)), Matrix(-Matrix::Identity(3, 3)));
+  const Vector b = vec({1.0, 2.0, 3.0, 1.0, 2.0, 3.0});
+  const Vector c = vec({1.0, 1.0, 1.0});
+  const lp::Result normal = lp::maximize(c, A, b, "dense");
+  CHECK(normal.fallbacks == 0);
+  CHECK(normal.backend == "dense");
+  // A tolerance that floating-point answers with rounding in them cannot meet makes the dense
+  // answer fail verification; the re-solve (GLPK, then cdd-exact) gives GLPK's optimum and is
+  // counted. Random rows, so that the optimal vertex carries rounding errors.
+  Rng rng(77);
+  const Matrix R = rng.matrix(40, 3, -1.0, 1.0);
+  const Vector rb = rng.vector(40, 1.0, 2.0);
+  const lp::Result ref = lp::maximize(c, R, rb, "glpk");
+  REQUIRE(ref.status == lp::Status::optimal);
+  {
+    VerifyToleranceGuard guard(1e-300);
+    const lp::Result r = lp::maximize(c, R, rb, "dense");
+    REQUIRE(r.status == lp::Status::optimal);
+    CHECK(r.value == doctest::Approx(ref.value).epsilon(1e-9));
+    CHECK(r.fallbacks >= 1);
+    CHECK(r.backend != "dense");
+    CHECK(lp::check_answer(c, R, rb, r).ok);
+    // Infeasible: {x_1 <= -1, -x_1 <= 0} (by hand); whoever answers, the status is right.
+    const lp::Result inf =
+        lp::maximize(vec({1.0}), rows({{1.0}, {-1.0}}), vec({-1.0, 0.0}), "dense");
+    CHECK(inf.status == lp::Status::infeasible);
+  }
+  CHECK(lp::maximize(c, R, rb, "dense").fallbacks == 0);
+}
+
 // Kept last in the file: on a library where adding zero rows aborts the process (GLPK's
 // glp_add_rows rejects nrs = 0 and its error handler calls abort()), the crash then ends the run
 // after every other test has reported. Under CTest each test case runs in its own process.

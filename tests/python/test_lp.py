@@ -10,6 +10,7 @@ reference's: degenerate LPs have many of both. Values worked out by hand say so.
 from __future__ import annotations
 
 import concurrent.futures
+import functools
 
 import corral
 import numpy as np
@@ -384,6 +385,371 @@ def test_input_conversions(backend):
     assert res.value == pytest.approx(5.0, rel=1e-12)
     res = corral.maximize(np.float32([1, 1]), ia.astype(np.float32), [2, 3], backend=backend)
     assert res.value == pytest.approx(5.0, rel=1e-12)
+
+
+# --------------------------------------------------------------------------------------------
+# Tall, degenerate, duplicate, badly scaled and rank-deficient LPs of every status
+#
+# Every case is compared with HiGHS (scipy.optimize.linprog(method="highs"), through highs()
+# above); its verdicts are computed once per case and shared by every backend. The cases are
+# built so that no tolerance decides them: integer data wherever a tie is structural (rows
+# through one vertex, repeated columns), exact multiples for parallel rows (an inexact multiple
+# tilts a row by an ulp, and in exact arithmetic two such rows meet far away), and wide margins
+# where a set is made empty.
+
+
+def expect_highs(c, A, b, backend, ref, *, allow_fallbacks=False):
+    """Solves on `backend` and compares with HiGHS's verdict `ref` = highs(c, A, b).
+
+    Beyond assert_matches_highs: a backend whose capabilities promise rays or Farkas
+    certificates must give them; a re-solve by another backend (Result.fallbacks) is a failure
+    unless `allow_fallbacks`; certificates are checked with per-row scaled tolerances, so that
+    badly scaled rows are judged fairly.
+    """
+    c = np.asarray(c, dtype=float)
+    A = np.asarray(A, dtype=float).reshape(-1, c.size)
+    b = np.asarray(b, dtype=float)
+    status, value = ref
+    res = corral.maximize(c, A, b, backend=backend)
+    if allow_fallbacks:
+        assert res.fallbacks >= 0
+    else:
+        assert res.fallbacks == 0, f"{res.fallbacks} fallback(s), answered by {res.backend}"
+        assert res.backend == backend
+    own = res.fallbacks == 0
+    caps = corral.backend_capabilities(res.backend)
+    assert res.status == status, (res.status, status)  # HiGHS's verdict
+    row_norm = np.linalg.norm(A, axis=1)
+    if status == "optimal":
+        # HiGHS's optimal value.
+        assert abs(res.value - value) <= VALUE_RTOL * max(1.0, abs(value)), (res.value, value)
+        assert_kkt(c, A, b, res, res.backend)
+    elif status == "unbounded":
+        assert res.x is None and res.duals is None
+        if own and caps["ray"]:
+            assert res.ray is not None, "the backend promises rays"
+        if res.ray is not None:
+            d = res.ray
+            # A d <= 0 (per row, relative to |a_i| |d|) and c·d > 0.
+            assert np.all(A @ d <= 1e-9 * row_norm * np.linalg.norm(d))
+            assert c @ d > 0
+    else:
+        assert res.x is None and res.duals is None
+        if own and caps["farkas"]:
+            assert res.farkas is not None, "the backend promises Farkas certificates"
+        if res.farkas is not None:
+            y = res.farkas
+            # y >= 0, Aᵀy = 0, bᵀy < 0 (Farkas' lemma), tolerances relative to Σ y_i |a_i|.
+            assert np.all(y >= -1e-12 * np.abs(y).max())
+            assert np.all(np.abs(A.T @ y) <= 1e-9 * (np.abs(y) @ row_norm))
+            assert b @ y < 0
+    return res
+
+
+def on_grid(a):
+    """a rounded to multiples of 2^-20: then 3 a, 5 a, 1000 a, 0.75 a are exact in double."""
+    return np.round(np.asarray(a) * 2.0**20) / 2.0**20
+
+
+def min_over(a, A, b):
+    """HiGHS's minimum of a·x over {A x <= b}, or None when it is not attained."""
+    res = linprog(a, A_ub=A, b_ub=b, bounds=[(None, None)] * a.size, method="highs")
+    return res.fun if res.status == 0 else None
+
+
+def make_empty(rng, A, b):
+    """Appends a row a·x <= min a·x - margin (the minimum from HiGHS): an empty set, whatever
+    the tolerances, since the margin is at least 5% of |a| + |min|."""
+    while True:
+        a = on_grid(rng.normal(size=A.shape[1]))
+        lo = min_over(a, A, b)
+        if lo is not None:
+            margin = rng.uniform(0.05, 1.0) * (np.linalg.norm(a) + abs(lo))
+            return np.vstack([A, a]), np.append(b, lo - margin)
+
+
+def tall_lp(rng, m, n, kind):
+    """A random tall LP of one kind:
+
+    - "interior": 0 strictly inside (b_i >= 0.2 |a_i|);
+    - "offset":   a point x0 with |x0| >= 3 inside (with margins), 0 outside;
+    - "ray":      as offset, rows flipped so that a·d <= 0 for a direction d, and c·d > 0:
+                  unbounded by construction (x0 + t d stays feasible);
+    - "empty":    as offset, plus a row that empties the set (make_empty).
+    Rows have entries on a 2^-20 grid (on_grid), so that their multiples below are exact.
+    """
+    A = on_grid(rng.normal(size=(m, n)))
+    c = rng.normal(size=n)
+    if kind == "interior":
+        return c, A, rng.uniform(0.2, 1.5, m) * np.linalg.norm(A, axis=1)
+    x0 = rng.uniform(-5.0, 5.0, n)
+    x0 = on_grid(x0 * max(1.0, 3.0 / np.linalg.norm(x0)))
+    if kind == "ray":
+        d = rng.normal(size=n)
+        A *= np.where(A @ d > 0, -1.0, 1.0)[:, None]
+        x0 *= -1.0 if x0 @ d < 0 else 1.0  # so that the row -x0·x <= ... below keeps d too
+        c = c - (c @ d) / (d @ d) * d + rng.uniform(0.1, 1.0) * d / np.linalg.norm(d)
+    b = A @ x0 + rng.uniform(0.05, 1.0, m) * np.linalg.norm(A, axis=1)
+    # A row x0 satisfies and 0 does not: -x0·x <= -|x0|^2 / 2.
+    A = np.vstack([A, -x0])
+    b = np.append(b, -0.5 * (x0 @ x0))
+    if kind == "empty":
+        A, b = make_empty(rng, A, b)
+    return c, A, b
+
+
+TALL_SIZES = [(30, 3), (80, 6), (200, 10), (300, 12)]
+TALL_KINDS = ["interior", "offset", "ray", "empty"]
+
+
+@functools.cache
+def tall_cases():
+    """(kind, c, A, b, HiGHS verdict) for each size and kind, four LPs each."""
+    rng = np.random.default_rng(4711)
+    cases = []
+    for m, n in TALL_SIZES:
+        for kind in TALL_KINDS:
+            for _ in range(4):
+                c, A, b = tall_lp(rng, m, n, kind)
+                cases.append((kind, c, A, b, highs(c, A, b)))
+    return cases
+
+
+@pytest.mark.parametrize("backend", BACKENDS)
+def test_tall_lps_of_every_status(backend):
+    seen = set()
+    for kind, c, A, b, ref in tall_cases():
+        res = expect_highs(c, A, b, backend, ref)
+        seen.add(res.status)
+        # What the construction says, beside HiGHS.
+        if kind == "ray":
+            assert ref[0] == "unbounded"
+        if kind == "empty":
+            assert ref[0] == "infeasible"
+        if kind in ("interior", "offset"):
+            assert ref[0] != "infeasible"
+    assert seen == {"optimal", "infeasible", "unbounded"}
+
+
+@functools.cache
+def degenerate_cases():
+    """Integer LPs with many rows through one integer vertex v (b = A v exactly).
+
+    Rows a_i through v (30 to 200 of them, some repeated exactly or doubled), rows with slack,
+    and sometimes a box around v; the rows through v make v a single point of their own set or
+    the apex of a pointed cone. The objective is c = Σ w_i a_i over rows through v with integer
+    w_i >= 0 (then v is optimal with value c·v, by weak duality: c·x = Σ w_i a_i·x <=
+    Σ w_i b_i = c·v), or a random integer vector (HiGHS decides).
+    """
+    rng = np.random.default_rng(8)
+    cases = []
+    for n, tight, boxed, cone in [
+        (2, 30, False, False),
+        (3, 40, True, True),
+        (6, 60, False, True),
+        (6, 60, True, True),
+        (10, 90, True, False),
+        (12, 50, False, True),
+        (4, 200, False, False),
+        (8, 150, True, True),
+        (12, 120, True, True),
+    ]:
+        v = rng.integers(-5, 6, n).astype(float)  # mostly far from 0: 0 is often outside
+        T = rng.integers(-4, 5, (tight, n)).astype(float)
+        T = T[np.abs(T).sum(axis=1) > 0]
+        if cone:
+            # Rows with a·d > 0 flipped: v + t d stays feasible, and the rows through v make a
+            # pointed cone with apex v (otherwise their normals span R^n positively and the set
+            # is the single point v).
+            d = rng.integers(-2, 3, n)
+            d[0] = d[0] or 1
+            T *= np.where(T @ d > 0, -1.0, 1.0)[:, None]
+        reps = rng.integers(0, T.shape[0], T.shape[0] // 4)
+        T = np.vstack([T, T[reps], 2.0 * T[reps[: len(reps) // 2]]])
+        S = rng.integers(-4, 5, (40, n)).astype(float)
+        S = S[np.abs(S).sum(axis=1) > 0]
+        A = np.vstack([T, S])
+        b = np.concatenate([T @ v, S @ v + rng.integers(1, 7, S.shape[0])])
+        if boxed:
+            A = np.vstack([A, np.eye(n), -np.eye(n)])
+            b = np.concatenate([b, v + rng.integers(1, 4, n), -v + rng.integers(1, 4, n)])
+        for k in range(3):
+            if k < 2:
+                w = rng.integers(0, 3, T.shape[0]) * (rng.uniform(size=T.shape[0]) < 0.3)
+                w[rng.integers(0, T.shape[0])] += 1
+                c = T.T @ w
+                known = c @ v  # by construction (weak duality), exact in double
+            else:
+                c = rng.integers(-3, 4, n).astype(float)
+                known = None
+            cases.append((c, A, b, highs(c, A, b), known))
+    return cases
+
+
+@pytest.mark.parametrize("backend", BACKENDS)
+def test_degenerate_integer_lps(backend):
+    for c, A, b, ref, known in degenerate_cases():
+        res = expect_highs(c, A, b, backend, ref)
+        if known is not None:
+            # HiGHS finds the value by construction, and so does the backend.
+            assert ref[0] == "optimal"
+            assert ref[1] == pytest.approx(known, rel=1e-9, abs=1e-9)
+            assert res.value == pytest.approx(known, rel=1e-9, abs=1e-9)
+
+
+def with_parallel_rows(rng, A, b, bounded_side):
+    """A, b with exact duplicates, exact positive multiples (3, 5, 1000, 0.75, 2^-10: exact on
+    rows with entries on a 2^-20 grid), looser parallel rows, and, when a point x0 of the set
+    is given as `bounded_side`, opposite rows -a·x <= -a·x0 + slack that make slabs (the set
+    then still holds x0)."""
+    m = A.shape[0]
+    idx = rng.integers(0, m, m // 2)
+    s = rng.choice([3.0, 5.0, 1000.0, 0.75, 2.0**-10], idx.size)
+    extra_A = [A[idx], s[:, None] * A[idx], A[idx]]
+    extra_b = [b[idx], s * b[idx], b[idx] + rng.uniform(0.01, 1.0, idx.size)]
+    if bounded_side is not None:
+        extra_A.append(-A[idx])
+        extra_b.append(-(A[idx] @ bounded_side) + rng.uniform(0.5, 2.0, idx.size))
+    return np.vstack([A, *extra_A]), np.concatenate([b, *extra_b])
+
+
+@functools.cache
+def parallel_cases():
+    """Tall LPs of every status with duplicate and parallel rows added."""
+    rng = np.random.default_rng(99)
+    cases = []
+    for m, n in [(30, 3), (120, 8), (160, 11)]:
+        for kind in TALL_KINDS:
+            c, A, b = tall_lp(rng, m, n, kind)
+            # Opposite rows only where they cannot change the verdict: "interior" holds 0.
+            A2, b2 = with_parallel_rows(rng, A, b, np.zeros(n) if kind == "interior" else None)
+            cases.append((kind, c, A2, b2, highs(c, A2, b2), highs(c, A, b)))
+    return cases
+
+
+@pytest.mark.parametrize("backend", BACKENDS)
+def test_duplicate_and_parallel_rows_every_status(backend):
+    seen = set()
+    for kind, c, A, b, ref, ref_plain in parallel_cases():
+        res = expect_highs(c, A, b, backend, ref)
+        seen.add(res.status)
+        if kind != "interior":  # the same set: HiGHS's verdict must not change
+            assert ref[0] == ref_plain[0]
+            if ref[0] == "optimal":
+                assert ref[1] == pytest.approx(ref_plain[1], rel=VALUE_RTOL)
+    assert seen == {"optimal", "infeasible", "unbounded"}
+
+
+@functools.cache
+def scaled_cases():
+    """Tall LPs of every status with every row times 10^u, u uniform in [-6, 6] (the same set).
+    The reference is HiGHS on the unscaled rows."""
+    rng = np.random.default_rng(123)
+    cases = []
+    for m, n in [(40, 4), (150, 9), (300, 12)]:
+        for kind in TALL_KINDS:
+            for _ in range(2):
+                c, A, b = tall_lp(rng, m, n, kind)
+                f = 10.0 ** rng.uniform(-6.0, 6.0, A.shape[0])
+                f[:2] = [1e-6, 1e6]
+                cases.append((c, f[:, None] * A, f * b, highs(c, A, b)))
+    return cases
+
+
+@pytest.mark.parametrize("backend", BACKENDS)
+def test_badly_scaled_rows_every_status(backend):
+    # Re-solves by another backend are allowed here (these rows are badly scaled on purpose);
+    # the answer must still be HiGHS's.
+    seen = set()
+    for c, A, b, ref in scaled_cases():
+        seen.add(expect_highs(c, A, b, backend, ref, allow_fallbacks=True).status)
+    assert seen == {"optimal", "infeasible", "unbounded"}
+
+
+@functools.cache
+def repeated_column_cases():
+    """Rank-deficient A from an integer A0 (m x k): A = [A0, A0[:, j], -A0[:, jn], 0]. For
+    x = (y, s, t, z), A x = A0 y' with y' = y + s e_j - t e_jn, so the lineality space (A d = 0)
+    has dimension 3. With c = (c0, c0_j, -c0_jn, 0) also c·x = c0·y', and the LP has the value
+    of the reduced LP max c0·y' s.t. A0 y' <= b, which HiGHS gives on its own (by hand). Adding
+    1 to the copy's cost, -2 to the negated copy's, or 0.5 to the zero column's makes c·d != 0
+    for d = e_s - e_j, e_t + e_jn or e_z: a feasible LP is then unbounded along ±d (by hand)."""
+    rng = np.random.default_rng(31)
+    cases = []
+    for m, k in [(12, 2), (40, 4), (100, 7), (250, 9)]:
+        for feasible_origin in (True, False):
+            A0 = rng.integers(-5, 6, (m, k)).astype(float)
+            y0 = np.zeros(k) if feasible_origin else rng.integers(-4, 5, k).astype(float)
+            b = A0 @ y0 + rng.integers(1, 8, m)
+            j, jn = rng.integers(0, k, 2)
+            A = np.hstack([A0, A0[:, [j]], -A0[:, [jn]], np.zeros((m, 1))])
+            c0 = rng.integers(-3, 4, k).astype(float)
+            reduced = highs(c0, A0, b)
+            c = np.concatenate([c0, [c0[j], -c0[jn], 0.0]])
+            cases.append((c, A, b, highs(c, A, b), reduced))
+            for extra in ([1.0, 0.0, 0.0], [0.0, -2.0, 0.0], [0.0, 0.0, 0.5]):
+                cu = c + np.concatenate([np.zeros(k), extra])
+                cases.append((cu, A, b, highs(cu, A, b), ("unbounded", None)))
+    return cases
+
+
+@pytest.mark.parametrize("backend", BACKENDS)
+def test_lineality_space_repeated_columns(backend):
+    for c, A, b, ref, by_reduction in repeated_column_cases():
+        res = expect_highs(c, A, b, backend, ref)
+        # HiGHS on the full LP agrees with HiGHS on the reduced one (or with the ray by hand).
+        assert ref[0] == by_reduction[0]
+        if ref[0] == "optimal":
+            assert ref[1] == pytest.approx(by_reduction[1], rel=VALUE_RTOL, abs=VALUE_RTOL)
+            assert res.value == pytest.approx(by_reduction[1], rel=VALUE_RTOL, abs=VALUE_RTOL)
+
+
+@functools.cache
+def subspace_cases():
+    """Rows only in a 2-D subspace of R^5: A = B P with integer B (m x 2) and P (2 x 5) of rank
+    2, so A x depends on P x only and the lineality space has dimension 3. With c = Pᵀw the
+    value is that of the 2-D LP max w·y s.t. B y <= b (HiGHS); with c = Pᵀw + e (e outside the
+    row space of P) a feasible LP is unbounded along the part of e orthogonal to that row space
+    (by hand). Also an empty one: rows u·y <= -1 and -u·y <= -1 in y = P x."""
+    rng = np.random.default_rng(57)
+    cases = []
+    for m in (8, 30, 120, 300):
+        while True:
+            P = rng.integers(-3, 4, (2, 5)).astype(float)
+            if np.linalg.matrix_rank(P) == 2:
+                break
+        B = rng.integers(-4, 5, (m, 2)).astype(float)
+        B = B[np.abs(B).sum(axis=1) > 0]
+        y0 = rng.integers(-3, 4, 2).astype(float)
+        b = B @ y0 + rng.integers(1, 6, B.shape[0])
+        A = B @ P  # exact: small integers
+        for _ in range(3):
+            w = rng.integers(-3, 4, 2).astype(float)
+            c = P.T @ w
+            cases.append((c, A, b, highs(c, A, b), highs(w, B, b)))
+        for e in np.eye(5)[:2]:
+            if np.linalg.matrix_rank(np.vstack([P, e])) == 3:
+                cu = P.T @ rng.integers(-3, 4, 2) + e
+                cases.append((cu, A, b, highs(cu, A, b), ("unbounded", None)))
+        u = rng.integers(1, 4, 2).astype(float)
+        Ae = np.vstack([A, u @ P, -u @ P])
+        be = np.append(b, [-1.0, -1.0])  # u·y <= -1 and u·y >= 1: empty (by hand)
+        c = P.T @ rng.integers(-3, 4, 2)
+        cases.append((c, Ae, be, highs(c, Ae, be), ("infeasible", None)))
+    return cases
+
+
+@pytest.mark.parametrize("backend", BACKENDS)
+def test_lineality_space_rows_in_a_plane(backend):
+    seen = set()
+    for c, A, b, ref, by_hand in subspace_cases():
+        res = expect_highs(c, A, b, backend, ref)
+        seen.add(res.status)
+        # HiGHS on the 5-D LP agrees with HiGHS on the 2-D one (or with the verdict by hand).
+        assert ref[0] == by_hand[0]
+        if ref[0] == "optimal":
+            assert ref[1] == pytest.approx(by_hand[1], rel=VALUE_RTOL, abs=VALUE_RTOL)
+    assert seen == {"optimal", "infeasible", "unbounded"}
 
 
 # --------------------------------------------------------------------------------------------

@@ -40,8 +40,9 @@ struct Info {
   long fallbacks = 0;       ///< answers re-solved by another backend after failing verification
   std::string method;       ///< which method produced the result
 
-  /// Records one LP of `rows` rows.
-  void count_lp(long rows) {
+  /// Records one LP of `rows` rows whose answer took `fallback_solves` re-solves.
+  void count_lp(long rows, int fallback_solves = 0) {
+    fallbacks += fallback_solves;
     mean_lp_rows = (mean_lp_rows * static_cast<double>(lp_solves) + static_cast<double>(rows)) /
                    static_cast<double>(lp_solves + 1);
     ++lp_solves;

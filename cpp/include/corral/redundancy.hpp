@@ -91,7 +91,7 @@ class RedundancyRemover {
       c(j % d) = j < d ? 1.0 : -1.0;
       solver->set_objective(c);
       const lp::Result r = solve_or_throw(*solver, "the bounding-box filter");
-      info_.count_lp(static_cast<long>(m));
+      info_.count_lp(static_cast<long>(m), r.fallbacks);
       if (r.status == lp::Status::optimal)
         (j < d ? hi_(j) : lo_(j - d)) = j < d ? r.value : -r.value;
     }
@@ -183,12 +183,25 @@ class RedundancyRemover {
     solver_ = lp::make_solver(A, b, Vector(), opt_.backend);
     in_lp_.assign(static_cast<size_t>(G_.rows()), 0);
     for (Index i : rows) in_lp_[static_cast<size_t>(i)] = 1;
+    known_ = rows;
+    Gk_.resize(static_cast<Index>(rows.size()), G_.cols());
+    hk_.resize(Gk_.rows());
+    for (size_t q = 0; q < rows.size(); ++q) {
+      Gk_.row(static_cast<Index>(q)) = G_.row(rows[q]);
+      hk_(static_cast<Index>(q)) = h_(rows[q]);
+    }
+    ws_.reset();
   }
 
   // Adds row i to the LP unless it is there already; returns whether it was added.
   bool include(Index i) {
     if (in_lp_[static_cast<size_t>(i)]) return false;
     in_lp_[static_cast<size_t>(i)] = 1;
+    known_.push_back(i);
+    Gk_.conservativeResize(Gk_.rows() + 1, Eigen::NoChange);
+    hk_.conservativeResize(hk_.rows() + 1);
+    Gk_.row(Gk_.rows() - 1) = G_.row(i);
+    hk_(hk_.rows() - 1) = h_(i);
     solver_->add_rows(G_.row(i), Vector::Constant(1, h_(i)));
     return true;
   }
@@ -209,7 +222,7 @@ class RedundancyRemover {
     b.conservativeResize(r);
     auto s = lp::make_solver(A, b, G_.row(k).transpose(), opt_.backend);
     const lp::Result res = solve_or_throw(*s, "redundancy removal");
-    info_.count_lp(static_cast<long>(r));
+    info_.count_lp(static_cast<long>(r), res.fallbacks);
     if (res.status != lp::Status::optimal)
       throw SolverError("redundancy removal: capped LP is " +
                         std::string(lp::to_string(res.status)));
@@ -274,50 +287,71 @@ class RedundancyRemover {
   // every row of the LP is optimal for all of them (a relaxation's optimum that is feasible);
   // otherwise the most violated rows join and the working set is solved again (warm). A
   // working-set maximum <= h_k already proves row k redundant: fewer rows only raise it.
+  // Any subset of the LP's rows is a valid working set, so the previous one is kept (and
+  // re-solved warm from its last vertex) while it holds the new start rows; rows visited in
+  // order of their nearest facet share most of them.
   lp::Result solve_over_known(Index k, const lp::SolveOptions& so) {
     const Index d = G_.cols();
-    std::vector<Index> known;
-    for (Index i = 0; i < G_.rows(); ++i)
-      if (in_lp_[static_cast<size_t>(i)]) known.push_back(i);
+    const std::vector<Index>& known = known_;
     const Index start = 2 * d + 2;
     if (static_cast<Index>(known.size()) > 2 * start) {
-      std::vector<std::pair<double, Index>> near;
-      near.reserve(known.size());
-      for (Index i : known) near.emplace_back(-G_.row(k).dot(G_.row(i)), i);
-      std::partial_sort(near.begin(), near.begin() + start, near.end());
-      Matrix S(start, d);
-      Vector hs(start);
-      for (Index q = 0; q < start; ++q) {
-        S.row(q) = G_.row(near[static_cast<size_t>(q)].second);
-        hs(q) = h_(near[static_cast<size_t>(q)].second);
+      dots_.noalias() = Gk_ * G_.row(k).transpose();
+      near_.clear();
+      for (size_t q = 0; q < known.size(); ++q)
+        near_.emplace_back(-dots_(static_cast<Index>(q)), known[q]);
+      std::nth_element(near_.begin(), near_.begin() + (start - 1), near_.end());
+      bool reuse = ws_ != nullptr && ws_->num_rows() <= 4 * start;
+      for (Index q = 0; q < start && reuse; ++q)
+        reuse = in_ws_[static_cast<size_t>(near_[static_cast<size_t>(q)].second)] != 0;
+      if (reuse) {
+        ws_->set_objective(G_.row(k).transpose());
+      } else {
+        Matrix S(start, d);
+        Vector hs(start);
+        in_ws_.resize(static_cast<size_t>(G_.rows()), 0);
+        for (Index i : ws_rows_) in_ws_[static_cast<size_t>(i)] = 0;
+        ws_rows_.clear();
+        for (Index q = 0; q < start; ++q) {
+          const Index i = near_[static_cast<size_t>(q)].second;
+          S.row(q) = G_.row(i);
+          hs(q) = h_(i);
+          in_ws_[static_cast<size_t>(i)] = 1;
+          ws_rows_.push_back(i);
+        }
+        ws_ = lp::make_solver(S, hs, G_.row(k).transpose(), opt_.backend);
       }
-      auto ws = lp::make_solver(S, hs, G_.row(k).transpose(), opt_.backend);
       for (int round = 0; round < 8; ++round) {
-        const lp::Result r = solve_or_throw(*ws, "redundancy removal", so);
-        info_.count_lp(static_cast<long>(ws->num_rows()));
+        const lp::Result r = solve_or_throw(*ws_, "redundancy removal", so);
+        info_.count_lp(static_cast<long>(ws_->num_rows()), r.fallbacks);
         if (r.status == lp::Status::unbounded || r.status == lp::Status::infeasible) break;
         if (!r.exceeds(*so.threshold)) return r;
-        std::vector<std::pair<double, Index>> violated;
-        for (Index i : known) {
-          const double v = G_.row(i).dot(r.x) - h_(i);
-          if (v > tol_) violated.emplace_back(-v, i);
+        violated_.clear();
+        dots_.noalias() = Gk_ * r.x;
+        for (size_t q = 0; q < known.size(); ++q) {
+          const Index i = known[q];
+          const double v = dots_(static_cast<Index>(q)) - hk_(static_cast<Index>(q));
+          if (v > tol_ && !in_ws_[static_cast<size_t>(i)]) violated_.emplace_back(-v, i);
         }
-        if (violated.empty()) return r;
-        std::sort(violated.begin(), violated.end());
-        const Index add = std::min<Index>(d, static_cast<Index>(violated.size()));
+        if (violated_.empty()) return r;
+        std::sort(violated_.begin(), violated_.end());
+        const Index add = std::min<Index>(d, static_cast<Index>(violated_.size()));
         Matrix Ga(add, d);
         Vector ha(add);
         for (Index q = 0; q < add; ++q) {
-          Ga.row(q) = G_.row(violated[static_cast<size_t>(q)].second);
-          ha(q) = h_(violated[static_cast<size_t>(q)].second);
+          const Index i = violated_[static_cast<size_t>(q)].second;
+          Ga.row(q) = G_.row(i);
+          ha(q) = h_(i);
+          in_ws_[static_cast<size_t>(i)] = 1;
+          ws_rows_.push_back(i);
         }
-        ws->add_rows(Ga, ha);
+        ws_->add_rows(Ga, ha);
       }
+      ws_.reset();  // did not settle: start afresh next time
     }
     // Few rows, or the working set did not settle: solve over every row of the LP.
     solver_->set_objective(G_.row(k).transpose());
     const lp::Result r = solve_or_throw(*solver_, "redundancy removal", so);
-    info_.count_lp(static_cast<long>(solver_->num_rows()));
+    info_.count_lp(static_cast<long>(solver_->num_rows()), r.fallbacks);
     return r;
   }
 
@@ -370,7 +404,7 @@ class RedundancyRemover {
       lp::SolveOptions so;
       so.threshold = h_(k) + tol_;
       const lp::Result r = solve_or_throw(*s, "redundancy removal", so);
-      info_.count_lp(static_cast<long>(A.rows()));
+      info_.count_lp(static_cast<long>(A.rows()), r.fallbacks);
       state_[static_cast<size_t>(k)] = r.exceeds(h_(k) + tol_) ? kFacet : kRedundant;
     }
   }
@@ -385,6 +419,13 @@ class RedundancyRemover {
   Vector lo_, hi_;
   std::unique_ptr<lp::Solver> solver_;
   std::vector<char> in_lp_;  // rows of G in the LP
+  std::vector<Index> known_;  // the same rows, as a list
+  Matrix Gk_;                 // the same rows of G, contiguous (in the order of known_)
+  Vector hk_, dots_;
+  std::unique_ptr<lp::Solver> ws_;  // working set of solve_over_known, kept between rows
+  std::vector<char> in_ws_;         // rows of G in ws_
+  std::vector<Index> ws_rows_;      // the same rows, as a list
+  std::vector<std::pair<double, Index>> near_, violated_;
 };
 
 /// Stored rows that duplicate another row (same normal within tol): all but the one with the
@@ -490,7 +531,7 @@ inline RedundancyResult remove_redundancy(const Polytope& P, const Options& opt 
   // Interior point and implicit equalities.
   auto cheb = detail::chebyshev_solver(A, b, P.scale(), opt.backend);
   const lp::Result cr = detail::solve_or_throw(*cheb, "redundancy removal (interior point)");
-  out.info.count_lp(static_cast<long>(A.rows()) + 1);
+  out.info.count_lp(static_cast<long>(A.rows()) + 1, cr.fallbacks);
   if (cr.status != lp::Status::optimal)
     throw SolverError("redundancy removal: interior-point LP is " +
                       std::string(lp::to_string(cr.status)));
@@ -579,7 +620,7 @@ inline RedundancyResult remove_redundancy(const Polytope& P, const Options& opt 
   if (d < n) {  // re-centre inside the hull
     auto c2 = detail::chebyshev_solver(G, h, P.scale(), opt.backend);
     const lp::Result r2 = detail::solve_or_throw(*c2, "redundancy removal (relative interior)");
-    out.info.count_lp(static_cast<long>(G.rows()) + 1);
+    out.info.count_lp(static_cast<long>(G.rows()) + 1, r2.fallbacks);
     if (r2.status != lp::Status::optimal || !(r2.x(d) > abs_tol))
       throw SolverError("redundancy removal: no relative interior point found");
     h -= G * r2.x.head(d);

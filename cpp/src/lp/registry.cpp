@@ -15,6 +15,7 @@ struct BackendEntry {
 };
 
 const BackendEntry kBackends[] = {
+    {"dense", detail::make_dense_solver, detail::dense_capabilities},
     {"glpk", detail::make_glpk_solver, detail::glpk_capabilities},
     {"cdd",
      [](const Matrix& A, const Vector& b, const Vector& c) {
@@ -33,7 +34,7 @@ std::mutex& defaults_mutex() {
   return m;
 }
 std::string& default_name() {
-  static std::string name = "glpk";
+  static std::string name = "dense";
   return name;
 }
 

@@ -85,7 +85,7 @@ class SolverBase : public Solver {
         return r;
       }
     r = solve_scaled(options);
-    r.backend = std::string(backend());
+    if (r.backend.empty()) r.backend = std::string(backend());  // a fallback names itself
     // Back to the caller's rows: a scaled row is a_i / s_i, so λ_i = μ_i / s_i.
     if (r.duals.size() == num_rows()) r.duals = r.duals.cwiseQuotient(scale_);
     if (r.farkas.size() == num_rows()) r.farkas = r.farkas.cwiseQuotient(scale_);
@@ -123,7 +123,8 @@ class SolverBase : public Solver {
     scale_.conservativeResize(m0 + k);
     zero_.conservativeResize(m0 + k);
     for (Index i = 0; i < k; ++i) {
-      const double s = A.row(i).stableNorm();
+      double s = A.row(i).norm();
+      if (!std::isfinite(s) || (s == 0.0 && !A.row(i).isZero(0.0))) s = A.row(i).stableNorm();
       const bool z = !(s > 0.0);
       int e = 0;
       if (!z) std::frexp(s, &e);  // s = f 2^e with f in [0.5, 1)
@@ -137,9 +138,11 @@ class SolverBase : public Solver {
 };
 
 // Factories, one per adapter file; registry.cpp lists them.
+std::unique_ptr<Solver> make_dense_solver(const Matrix& A, const Vector& b, const Vector& c);
 std::unique_ptr<Solver> make_glpk_solver(const Matrix& A, const Vector& b, const Vector& c);
 std::unique_ptr<Solver> make_cdd_solver(const Matrix& A, const Vector& b, const Vector& c,
                                         bool exact);
+Capabilities dense_capabilities();
 Capabilities glpk_capabilities();
 Capabilities cdd_capabilities(bool exact);
 

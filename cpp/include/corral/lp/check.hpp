@@ -9,6 +9,7 @@
 #include <algorithm>
 #include <cmath>
 #include <string>
+#include <vector>
 
 namespace corral::lp {
 
@@ -20,7 +21,9 @@ struct CheckReport {
       0.0;  ///< max over rows of (a_i·x - b_i) / (|b_i| + ‖a_i‖ ‖x‖ + tiny)
 };
 
-/// Checks `result` for max c·x s.t. A x <= b at relative tolerance `tol`:
+/// Checks `result` for max c·x s.t. A x <= b at relative tolerance `tol`, with the length
+/// scale ‖x‖ replaced by max(‖x‖, median_i |b_i| / ‖a_i‖) (the size of the set, for optimisers
+/// at or near the origin):
 /// - primal: a_i·x - b_i <= tol (|b_i| + ‖a_i‖ ‖x‖) for optimal and stopped answers;
 /// - dual (optimal answers with duals), on μ_i = λ_i ‖a_i‖ (the multipliers of unit rows):
 ///   μ_i >= -tol max μ, ‖Aᵀλ - c‖∞ <= tol (1 + ‖c‖∞ + max μ),
@@ -43,7 +46,18 @@ inline CheckReport check_answer(const Vector& c, const Matrix& A, const Vector& 
       fail("optimiser has the wrong length");
       return rep;
     }
-    const double xn = result.x.norm();
+    // Length scale: ‖x‖, but at least the median distance |b_i| / ‖a_i‖ of the rows from the
+    // origin, so that an optimiser at (or rounding around) x = 0 is judged against the size of
+    // the set, not against its own rounding noise.
+    std::vector<double> dist;
+    for (Index i = 0; i < m; ++i)
+      if (row_norm(i) > 0) dist.push_back(std::abs(b(i)) / row_norm(i));
+    double median = 0.0;
+    if (!dist.empty()) {
+      std::nth_element(dist.begin(), dist.begin() + static_cast<long>(dist.size() / 2), dist.end());
+      median = dist[dist.size() / 2];
+    }
+    const double xn = std::max(result.x.norm(), median);
     const Vector slack = b - A * result.x;
     for (Index i = 0; i < m; ++i) {
       const double scale = std::abs(b(i)) + row_norm(i) * xn + 1e-300;

@@ -55,6 +55,9 @@ struct Result {
   Index unbounded_index = -1;
   std::string backend;  ///< name of the backend that produced this answer
   long iterations = 0;  ///< pivots reported by the backend (0 when it does not report)
+  /// Re-solves by another backend after an answer failed verification (the dense backend
+  /// re-solves on GLPK, then on cdd-exact); `backend` names the one that answered.
+  int fallbacks = 0;
 
   bool has_duals() const { return duals.size() > 0; }
   bool has_ray() const { return ray.size() > 0; }
@@ -95,6 +98,14 @@ class Solver {
   /// Solves the current problem.
   virtual Result solve(const SolveOptions& options = {}) = 0;
 };
+
+/// Relative tolerance at which the dense backend verifies every answer before returning it
+/// (default 1e-9; the conditions are listed in cpp/src/lp/dense_backend.cpp and DEVELOPERS.md).
+/// An answer that fails is re-solved by GLPK, then by cdd-exact (Result::fallbacks).
+double verify_tolerance();
+
+/// Sets verify_tolerance() for the process. Throws InvalidInputError unless 0 < tol <= 1e-3.
+void set_verify_tolerance(double tol);
 
 /// Names of the backends in this build (the default is default_backend()).
 std::vector<std::string> backends();
