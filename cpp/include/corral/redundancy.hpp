@@ -418,7 +418,7 @@ class RedundancyRemover {
   std::vector<State> state_;
   Vector lo_, hi_;
   std::unique_ptr<lp::Solver> solver_;
-  std::vector<char> in_lp_;  // rows of G in the LP
+  std::vector<char> in_lp_;   // rows of G in the LP
   std::vector<Index> known_;  // the same rows, as a list
   Matrix Gk_;                 // the same rows of G, contiguous (in the order of known_)
   Vector hk_, dots_;
