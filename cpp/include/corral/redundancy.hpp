@@ -111,18 +111,23 @@ class RedundancyRemover {
   // First row met by the ray t ↦ t·dir (t > 0) among rows not known redundant.
   // Returns -1 if none; sets `tied` when another row is met within tolerance.
   Index shoot(const Vector& dir, std::vector<Index>* tied) {
-    const Vector gd = G_ * dir;
+    Vector& gd = gd_;
+    gd.noalias() = G_ * dir;
     const double dn = dir.norm();
-    double best = std::numeric_limits<double>::infinity();
+    // The smallest ratio h_i / gd_i, compared by cross-multiplication (h_i > 0, gd_i > 0).
+    double bh = 1.0, bg = 0.0;
     Index arg = -1;
+    const double* g = gd.data();
+    const double* h = h_.data();
     for (Index i = 0; i < G_.rows(); ++i) {
-      if (state_[static_cast<size_t>(i)] == kRedundant || !(gd(i) > 0)) continue;
-      const double t = h_(i) / gd(i);
-      if (t < best) {
-        best = t;
+      if (!(g[i] > 0) || state_[static_cast<size_t>(i)] == kRedundant) continue;
+      if (arg < 0 || h[i] * bg < bh * g[i]) {
+        bh = h[i];
+        bg = g[i];
         arg = i;
       }
     }
+    const double best = arg >= 0 ? bh / bg : std::numeric_limits<double>::infinity();
     if (tied) {
       tied->clear();
       if (arg >= 0)
@@ -364,13 +369,22 @@ class RedundancyRemover {
     for (Index i = 0; i < m; ++i)
       if (state_[static_cast<size_t>(i)] == kFacet) known.push_back(i);
     std::vector<std::pair<Index, double>> key(static_cast<size_t>(m), {-1, 0.0});
-    for (Index i = 0; i < m; ++i) {
-      order.push_back(i);
-      if (state_[static_cast<size_t>(i)] != kUndecided) continue;
-      for (Index f : known) {
-        const double dot = G_.row(i).dot(G_.row(f));
-        if (key[static_cast<size_t>(i)].first < 0 || dot > key[static_cast<size_t>(i)].second)
-          key[static_cast<size_t>(i)] = {f, dot};
+    Matrix Gf(static_cast<Index>(known.size()), G_.cols());
+    for (size_t q = 0; q < known.size(); ++q) Gf.row(static_cast<Index>(q)) = G_.row(known[q]);
+    // Matrix products over blocks of rows instead of m K short dot products.
+    const Index block = 512;
+    Matrix dots;
+    for (Index i0 = 0; i0 < m; i0 += block) {
+      const Index len = std::min(block, m - i0);
+      dots.noalias() = G_.middleRows(i0, len) * Gf.transpose();
+      for (Index i = i0; i < i0 + len; ++i) {
+        order.push_back(i);
+        if (state_[static_cast<size_t>(i)] != kUndecided) continue;
+        for (size_t q = 0; q < known.size(); ++q) {
+          const double dot = dots(i - i0, static_cast<Index>(q));
+          if (key[static_cast<size_t>(i)].first < 0 || dot > key[static_cast<size_t>(i)].second)
+            key[static_cast<size_t>(i)] = {known[q], dot};
+        }
       }
     }
     std::stable_sort(order.begin(), order.end(), [&](Index a, Index b) {
@@ -421,7 +435,7 @@ class RedundancyRemover {
   std::vector<char> in_lp_;   // rows of G in the LP
   std::vector<Index> known_;  // the same rows, as a list
   Matrix Gk_;                 // the same rows of G, contiguous (in the order of known_)
-  Vector hk_, dots_;
+  Vector hk_, dots_, gd_;
   std::unique_ptr<lp::Solver> ws_;  // working set of solve_over_known, kept between rows
   std::vector<char> in_ws_;         // rows of G in ws_
   std::vector<Index> ws_rows_;      // the same rows, as a list
