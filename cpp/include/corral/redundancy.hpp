@@ -288,29 +288,30 @@ class RedundancyRemover {
   }
 
   // max g_k·z over the rows in the LP, by row generation on a small working set: it starts with
-  // the 2d + 2 rows nearest to g_k in direction. An optimum of the working set that satisfies
+  // 2d + 2 rows nearest in direction. An optimum of the working set that satisfies
   // every row of the LP is optimal for all of them (a relaxation's optimum that is feasible);
   // otherwise the most violated rows join and the working set is solved again (warm). A
   // working-set maximum <= h_k already proves row k redundant: fewer rows only raise it.
-  // Any subset of the LP's rows is a valid working set, so the previous one is kept (and
-  // re-solved warm from its last vertex) while it holds the new start rows; rows visited in
-  // order of their nearest facet share most of them.
+  // Any subset of the LP's rows is a valid working set, so one is built per group of rows with
+  // the same nearest facet f (clarkson_order), from the rows nearest to f, and kept for the
+  // whole group: the group's LPs are then warm re-solves from the previous vertex, and rows
+  // added for one row serve the next ones (up to 4 (2d + 2) rows, then it is rebuilt).
   lp::Result solve_over_known(Index k, const lp::SolveOptions& so) {
     const Index d = G_.cols();
     const std::vector<Index>& known = known_;
     const Index start = 2 * d + 2;
     if (static_cast<Index>(known.size()) > 2 * start) {
-      dots_.noalias() = Gk_ * G_.row(k).transpose();
-      near_.clear();
-      for (size_t q = 0; q < known.size(); ++q)
-        near_.emplace_back(-dots_(static_cast<Index>(q)), known[q]);
-      std::nth_element(near_.begin(), near_.begin() + (start - 1), near_.end());
-      bool reuse = ws_ != nullptr && ws_->num_rows() <= 4 * start;
-      for (Index q = 0; q < start && reuse; ++q)
-        reuse = in_ws_[static_cast<size_t>(near_[static_cast<size_t>(q)].second)] != 0;
-      if (reuse) {
+      const Index g =
+          group_.empty() || group_[static_cast<size_t>(k)] < 0 ? k : group_[static_cast<size_t>(k)];
+      if (ws_ != nullptr && g == ws_group_ && ws_->num_rows() <= 4 * start) {
         ws_->set_objective(G_.row(k).transpose());
       } else {
+        ws_group_ = g;
+        dots_.noalias() = Gk_ * G_.row(g).transpose();
+        near_.clear();
+        for (size_t q = 0; q < known.size(); ++q)
+          near_.emplace_back(-dots_(static_cast<Index>(q)), known[q]);
+        std::nth_element(near_.begin(), near_.begin() + (start - 1), near_.end());
         Matrix S(start, d);
         Vector hs(start);
         in_ws_.resize(static_cast<size_t>(G_.rows()), 0);
@@ -363,7 +364,7 @@ class RedundancyRemover {
   // Undecided rows grouped under the known facet nearest in direction (largest g_k·g_f), and
   // by that dot product within a group: consecutive LPs then differ little in their objective,
   // so warm-started solvers need few pivots. The order changes no result.
-  std::vector<Index> clarkson_order() const {
+  std::vector<Index> clarkson_order() {
     const Index m = G_.rows();
     std::vector<Index> known, order;
     for (Index i = 0; i < m; ++i)
@@ -387,6 +388,9 @@ class RedundancyRemover {
         }
       }
     }
+    group_.assign(static_cast<size_t>(m), -1);
+    for (Index i = 0; i < m; ++i)
+      group_[static_cast<size_t>(i)] = key[static_cast<size_t>(i)].first;
     std::stable_sort(order.begin(), order.end(), [&](Index a, Index b) {
       const auto& ka = key[static_cast<size_t>(a)];
       const auto& kb = key[static_cast<size_t>(b)];
@@ -439,6 +443,8 @@ class RedundancyRemover {
   std::unique_ptr<lp::Solver> ws_;  // working set of solve_over_known, kept between rows
   std::vector<char> in_ws_;         // rows of G in ws_
   std::vector<Index> ws_rows_;      // the same rows, as a list
+  std::vector<Index> group_;        // nearest known facet of each row (clarkson_order)
+  Index ws_group_ = -2;             // the group ws_ was built for
   std::vector<std::pair<double, Index>> near_, violated_;
 };
 
