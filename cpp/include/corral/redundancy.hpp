@@ -114,27 +114,32 @@ class RedundancyRemover {
     Vector& gd = gd_;
     gd.noalias() = G_ * dir;
     const double dn = dir.norm();
-    // The smallest ratio h_i / gd_i, compared by cross-multiplication (h_i > 0, gd_i > 0).
-    double bh = 1.0, bg = 0.0;
+    // One pass: the smallest ratio h_i / gd_i (h_i > 0, gd_i > 0), and the rows met within tol
+    // of the running minimum (a superset of the final ties, filtered below).
+    double best = std::numeric_limits<double>::infinity();
     Index arg = -1;
     const double* g = gd.data();
     const double* h = h_.data();
+    near_hits_.clear();
     for (Index i = 0; i < G_.rows(); ++i) {
-      if (!(g[i] > 0) || state_[static_cast<size_t>(i)] == kRedundant) continue;
-      if (arg < 0 || h[i] * bg < bh * g[i]) {
-        bh = h[i];
-        bg = g[i];
+      const double gi = g[i];
+      if (!(gi > 0)) continue;
+      // h_i > best gd_i + slack: not the minimum and not tied with it (cheap test first).
+      const double slack = tol_ * std::max(1.0, best * dn);
+      if (h[i] > best * gi + slack || state_[static_cast<size_t>(i)] == kRedundant) continue;
+      if (h[i] < best * gi) {
+        best = h[i] / gi;
         arg = i;
       }
+      near_hits_.push_back(i);
     }
-    const double best = arg >= 0 ? bh / bg : std::numeric_limits<double>::infinity();
     if (tied) {
       tied->clear();
       if (arg >= 0)
-        for (Index i = 0; i < G_.rows(); ++i) {
-          if (i == arg || state_[static_cast<size_t>(i)] == kRedundant || !(gd(i) > 0)) continue;
+        for (Index i : near_hits_) {
+          if (i == arg) continue;
           // Row i is met within tol of the hit point: distance from it to the hyperplane of i.
-          if ((h_(i) - best * gd(i)) <= tol_ * std::max(1.0, best * dn)) tied->push_back(i);
+          if ((h[i] - best * g[i]) <= tol_ * std::max(1.0, best * dn)) tied->push_back(i);
         }
     }
     return arg;
@@ -440,6 +445,7 @@ class RedundancyRemover {
   std::vector<Index> known_;  // the same rows, as a list
   Matrix Gk_;                 // the same rows of G, contiguous (in the order of known_)
   Vector hk_, dots_, gd_;
+  std::vector<Index> near_hits_;    // work space of shoot()
   std::unique_ptr<lp::Solver> ws_;  // working set of solve_over_known, kept between rows
   std::vector<char> in_ws_;         // rows of G in ws_
   std::vector<Index> ws_rows_;      // the same rows, as a list
