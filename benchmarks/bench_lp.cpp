@@ -26,6 +26,8 @@
 #include <corral/lp/solver.hpp>
 #include <corral/version.hpp>
 
+#include "bench_common.hpp"
+
 #include <algorithm>
 #include <cerrno>
 #include <chrono>
@@ -70,24 +72,21 @@ using corral::Index;
 using corral::Matrix;
 using corral::Vector;
 namespace lp = corral::lp;
-using Clock = std::chrono::steady_clock;
+using Clock = corral_bench::Clock;
+using corral_bench::cpu_model;
+using corral_bench::json_escape;
+using corral_bench::json_num;
+using corral_bench::median;
+using corral_bench::now_utc;
+using corral_bench::read_all;
+using corral_bench::seconds_since;
+using corral_bench::write_all;
 
 const char* const kBaseline = "glpk";
 constexpr double kCheckTol = 1e-9;    // lp::check_answer tolerance
 constexpr double kValueFlag = 1e-7;   // relative value difference flagged against GLPK
 constexpr double kTightSlack = 1e-7;  // relative slack under which a row counts as tight
 constexpr double kCentreNorm = 10.0;  // norm of the shifted family's centre
-
-double seconds_since(Clock::time_point t0) {
-  return std::chrono::duration<double>(Clock::now() - t0).count();
-}
-
-double median(std::vector<double> v) {
-  if (v.empty()) return std::numeric_limits<double>::quiet_NaN();
-  std::sort(v.begin(), v.end());
-  const size_t k = v.size();
-  return k % 2 ? v[k / 2] : 0.5 * (v[k / 2 - 1] + v[k / 2]);
-}
 
 // ---------------------------------------------------------------------------------------------
 // Random numbers: std::mt19937's raw output mapped to [0, 1); the normals and the integer
@@ -526,31 +525,8 @@ Outcome guarded(const std::function<Outcome()>& f) {
 }
 
 // ---------------------------------------------------------------------------------------------
+
 // Running in a child process, killed when it passes cfg.kill.
-bool write_all(int fd, const void* p, size_t len) {
-  const char* c = static_cast<const char*>(p);
-  while (len > 0) {
-    const ssize_t k = ::write(fd, c, len);
-    if (k < 0 && errno == EINTR) continue;
-    if (k <= 0) return false;
-    c += k;
-    len -= static_cast<size_t>(k);
-  }
-  return true;
-}
-
-size_t read_all(int fd, void* p, size_t len) {
-  char* c = static_cast<char*>(p);
-  size_t got = 0;
-  while (got < len) {
-    const ssize_t k = ::read(fd, c + got, len - got);
-    if (k < 0 && errno == EINTR) continue;
-    if (k <= 0) break;
-    got += static_cast<size_t>(k);
-  }
-  return got;
-}
-
 Outcome run_isolated(const std::function<Outcome()>& f, double kill, bool use_fork) {
   if (!use_fork) return guarded(f);
   std::fflush(stdout);
@@ -710,50 +686,10 @@ const char* status_name(int s) {
   }
 }
 
-std::string json_escape(const std::string& s) {
-  std::string r;
-  for (char c : s) {
-    if (c == '"' || c == '\\') {
-      r += '\\';
-      r += c;
-    } else if (static_cast<unsigned char>(c) < 0x20) {
-      r += ' ';
-    } else {
-      r += c;
-    }
-  }
-  return r;
-}
-
-std::string json_num(double v) {
-  if (!std::isfinite(v)) return "null";
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.6g", v);
-  return buf;
-}
-
 std::string json_list(const std::vector<double>& v) {
   std::string s = "[";
   for (size_t i = 0; i < v.size(); ++i) s += (i ? ", " : "") + json_num(v[i]);
   return s + "]";
-}
-
-std::string cpu_model() {
-  std::ifstream f("/proc/cpuinfo");
-  std::string line;
-  while (std::getline(f, line))
-    if (line.rfind("model name", 0) == 0) {
-      const auto p = line.find(':');
-      if (p != std::string::npos) return line.substr(p + 2);
-    }
-  return "unknown";
-}
-
-std::string now_utc() {
-  const std::time_t t = std::time(nullptr);
-  char buf[32];
-  std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", std::gmtime(&t));
-  return buf;
 }
 
 std::string capability_note(const std::string& backend) {

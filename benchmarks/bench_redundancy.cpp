@@ -25,6 +25,8 @@
 #include <corral/detail/cdd.hpp>
 #include <corral/version.hpp>
 
+#include "bench_common.hpp"
+
 #include <algorithm>
 #include <cerrno>
 #include <chrono>
@@ -64,11 +66,15 @@ namespace {
 using corral::Index;
 using corral::Matrix;
 using corral::Vector;
-using Clock = std::chrono::steady_clock;
-
-double seconds_since(Clock::time_point t0) {
-  return std::chrono::duration<double>(Clock::now() - t0).count();
-}
+using Clock = corral_bench::Clock;
+using corral_bench::cpu_model;
+using corral_bench::json_escape;
+using corral_bench::json_num;
+using corral_bench::median;
+using corral_bench::now_utc;
+using corral_bench::read_all;
+using corral_bench::seconds_since;
+using corral_bench::write_all;
 
 // ---------------------------------------------------------------------------------------------
 // Random numbers. std::mt19937_64's output is fixed by the standard; the distributions of
@@ -377,30 +383,6 @@ const std::vector<std::string> kDefaultMethods = {"corral", "corral-glpk", "cdd-
                                                   "glpk-loop"};
 
 // ---------------------------------------------------------------------------------------------
-// Running a method in a child process killed at the cap.
-bool write_all(int fd, const void* p, size_t len) {
-  const char* c = static_cast<const char*>(p);
-  while (len > 0) {
-    const ssize_t k = ::write(fd, c, len);
-    if (k < 0 && errno == EINTR) continue;
-    if (k <= 0) return false;
-    c += k;
-    len -= static_cast<size_t>(k);
-  }
-  return true;
-}
-
-size_t read_all(int fd, void* p, size_t len) {
-  char* c = static_cast<char*>(p);
-  size_t got = 0;
-  while (got < len) {
-    const ssize_t k = ::read(fd, c + got, len - got);
-    if (k < 0 && errno == EINTR) continue;
-    if (k <= 0) break;
-    got += static_cast<size_t>(k);
-  }
-  return got;
-}
 
 Outcome guarded(const std::function<Outcome(const Instance&)>& f, const Instance& I) {
   try {
@@ -499,28 +481,6 @@ std::string ratio_cell(const Outcome& base, const Outcome& ref) {
 
 double mean_rows_bound(const Instance& I) { return 1.5 * static_cast<double>(I.K) + I.n; }
 
-std::string json_escape(const std::string& s) {
-  std::string r;
-  for (char c : s) {
-    if (c == '"' || c == '\\') {
-      r += '\\';
-      r += c;
-    } else if (static_cast<unsigned char>(c) < 0x20) {
-      r += ' ';
-    } else {
-      r += c;
-    }
-  }
-  return r;
-}
-
-std::string json_num(double v) {
-  if (!std::isfinite(v)) return "null";
-  char buf[64];
-  std::snprintf(buf, sizeof buf, "%.6g", v);
-  return buf;
-}
-
 const char* status_name(int s) {
   switch (s) {
     case kDone: return "done";
@@ -529,24 +489,6 @@ const char* status_name(int s) {
     case kError: return "error";
     default: return "crashed";
   }
-}
-
-std::string cpu_model() {
-  std::ifstream f("/proc/cpuinfo");
-  std::string line;
-  while (std::getline(f, line))
-    if (line.rfind("model name", 0) == 0) {
-      const auto p = line.find(':');
-      if (p != std::string::npos) return line.substr(p + 2);
-    }
-  return "unknown";
-}
-
-std::string now_utc() {
-  const std::time_t t = std::time(nullptr);
-  char buf[32];
-  std::strftime(buf, sizeof buf, "%Y-%m-%dT%H:%M:%SZ", std::gmtime(&t));
-  return buf;
 }
 
 struct Config {
@@ -866,12 +808,6 @@ Config parse_args(int argc, char** argv) {
   if (!(c.cap > 0)) throw std::runtime_error("--cap must be positive");
   std::sort(c.ms.begin(), c.ms.end());
   return c;
-}
-
-double median(std::vector<double> v) {
-  std::sort(v.begin(), v.end());
-  const size_t k = v.size();
-  return k % 2 ? v[k / 2] : 0.5 * (v[k / 2 - 1] + v[k / 2]);
 }
 
 }  // namespace

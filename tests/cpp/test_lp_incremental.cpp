@@ -54,37 +54,11 @@ namespace {
 using corral::Index;
 using corral::Matrix;
 using corral::Vector;
+using corral::test::Rng;
 using corral::test::rows;
 using corral::test::vec;
 using corral::test::vstack;
 namespace lp = corral::lp;
-
-// Uniform numbers from std::mt19937 directly (its output is fully specified by the standard,
-// unlike the standard distributions), so the sequences are the same with every library.
-class Rng {
- public:
-  explicit Rng(std::uint32_t seed) : gen_(seed) {}
-  double uniform(double lo, double hi) {
-    return lo + (hi - lo) * (static_cast<double>(gen_()) / 4294967296.0);
-  }
-  Index index(Index n) { return static_cast<Index>(gen_() % static_cast<std::uint32_t>(n)); }
-  // An integer in [lo, hi].
-  int integer(int lo, int hi) { return lo + static_cast<int>(index(hi - lo + 1)); }
-  bool chance(double p) { return uniform(0.0, 1.0) < p; }
-  Vector vector(Index n, double lo, double hi) {
-    Vector v(n);
-    for (Index i = 0; i < n; ++i) v(i) = uniform(lo, hi);
-    return v;
-  }
-  Vector integers(Index n, int lo, int hi) {
-    Vector v(n);
-    for (Index i = 0; i < n; ++i) v(i) = integer(lo, hi);
-    return v;
-  }
-
- private:
-  std::mt19937 gen_;
-};
 
 enum class Family { interior, offset, degenerate, duplicates, scaled, lineality };
 

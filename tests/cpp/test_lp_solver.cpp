@@ -28,6 +28,7 @@ namespace {
 using corral::Index;
 using corral::Matrix;
 using corral::Vector;
+using corral::test::Rng;
 using corral::test::rows;
 using corral::test::vec;
 using corral::test::vstack;
@@ -35,31 +36,6 @@ namespace lp = corral::lp;
 
 constexpr double kNaN = std::numeric_limits<double>::quiet_NaN();
 constexpr double kInf = std::numeric_limits<double>::infinity();
-
-// Uniform numbers from std::mt19937 directly (its output is fully specified by the standard,
-// unlike the standard distributions), so the random LPs are the same with every library.
-class Rng {
- public:
-  explicit Rng(std::uint32_t seed) : gen_(seed) {}
-  double uniform(double lo, double hi) {
-    return lo + (hi - lo) * (static_cast<double>(gen_()) / 4294967296.0);
-  }
-  Index index(Index n) { return static_cast<Index>(gen_() % static_cast<std::uint32_t>(n)); }
-  Vector vector(Index n, double lo, double hi) {
-    Vector v(n);
-    for (Index i = 0; i < n; ++i) v(i) = uniform(lo, hi);
-    return v;
-  }
-  Matrix matrix(Index m, Index n, double lo, double hi) {
-    Matrix M(m, n);
-    for (Index i = 0; i < m; ++i)
-      for (Index j = 0; j < n; ++j) M(i, j) = uniform(lo, hi);
-    return M;
-  }
-
- private:
-  std::mt19937 gen_;
-};
 
 // The box lower <= x <= upper as rows [I; -I], b = [upper; -lower].
 void box(const Vector& lower, const Vector& upper, Matrix& A, Vector& b) {
