@@ -2,6 +2,8 @@
 # Included by the build and by the installed package config, so both resolve them alike.
 # cddlib: only libcddgmp is linked. It provides the GMP-rational dd_* and the floating-point
 # ddf_* functions; linking libcdd as well would bind a second set of dd_* symbols silently.
+# qhull: only the reentrant libqhull_r (headers in libqhull_r/), never the non-reentrant
+# libqhull, whose qh_* symbols have the same names with global state.
 include(CMakeFindDependencyMacro)
 find_dependency(Eigen3 3.3 CONFIG)
 find_dependency(Threads)
@@ -31,4 +33,18 @@ if(NOT TARGET corral::glpk)
                         INTERFACE_INCLUDE_DIRECTORIES "${CORRAL_CDD_INCLUDE_DIR}"
                         INTERFACE_COMPILE_DEFINITIONS "GMPRATIONAL"
                         INTERFACE_LINK_LIBRARIES corral::gmp)
+endif()
+
+if(NOT TARGET corral::qhull_r)
+  find_path(CORRAL_QHULL_INCLUDE_DIR libqhull_r/libqhull_r.h)
+  find_library(CORRAL_QHULL_R_LIBRARY NAMES qhull_r)
+  foreach(var CORRAL_QHULL_INCLUDE_DIR CORRAL_QHULL_R_LIBRARY)
+    if(NOT ${var})
+      message(FATAL_ERROR "corral: ${var} not found (Debian: libqhull-dev; "
+                          "or run scripts/bootstrap)")
+    endif()
+  endforeach()
+  add_library(corral::qhull_r UNKNOWN IMPORTED)
+  set_target_properties(corral::qhull_r PROPERTIES IMPORTED_LOCATION "${CORRAL_QHULL_R_LIBRARY}"
+                        INTERFACE_INCLUDE_DIRECTORIES "${CORRAL_QHULL_INCLUDE_DIR}")
 endif()

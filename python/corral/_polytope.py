@@ -88,15 +88,41 @@ def _affine_hull(self: Polytope, *, backend=None, tol=None):
     return np.asarray(E), np.asarray(e), np.asarray(rows, dtype=np.int64)
 
 
-def _vertices(self: Polytope, exact: bool = False, as_fractions: bool = False):
-    """Vertices, one per row, by double description through cddlib (exact: GMP rationals).
-    as_fractions=True (needs exact=True) returns lists of fractions.Fraction. Raises
-    UnboundedSetError for an unbounded set; an empty set gives a (0, dim) array."""
+def _vertices(
+    self: Polytope, exact: bool = False, as_fractions: bool = False, *, return_info: bool = False
+):
+    """Vertices, each once, one per row (in no particular order).
+
+    A full-dimensional set in floating point: qhull (quickhull) on the polar of the set about
+    its Chebyshev centre, every vertex recomputed and validated, exact cddlib when validation
+    fails; sets of lower dimension and 1-D sets: cddlib in double; exact=True: cddlib in GMP
+    rationals. as_fractions=True (needs exact=True) returns lists of fractions.Fraction.
+    Raises UnboundedSetError for an unbounded set; an empty set gives a (0, dim) array. With
+    return_info=True also an Info whose ``method`` is "qhull", "cdd" or "cdd-exact" (empty
+    for the canonical empty set) and whose ``fallbacks`` counts answers redone exactly.
+    """
     if as_fractions:
         if not exact:
             raise InvalidInputError("as_fractions: needs exact=True")
-        return self._vertices_exact()
-    return np.asarray(self._vertices(bool(exact)))
+        F, info = self._vertices_exact()
+        return (F, _info(info)) if return_info else F
+    V, info = self._vertices(bool(exact))
+    V = np.asarray(V)
+    return (V, _info(info)) if return_info else V
+
+
+def _from_vertices(V, *, exact: bool = False, return_info: bool = False):
+    """The convex hull of the rows of V (k points in R^n) as its facets, each once.
+
+    A full-dimensional hull in floating point (n >= 2): qhull, every facet recomputed from
+    the points and validated, exact cddlib when validation fails; hulls of lower dimension
+    and n = 1: cddlib in double, with the hull's equalities as pairs of opposite rows;
+    exact=True: cddlib in GMP rationals. Repeated points and points inside are allowed. With
+    return_info=True also an Info (``method``: "qhull", "cdd" or "cdd-exact"; empty for no
+    points).
+    """
+    P, info = Polytope._from_vertices(V, exact=bool(exact))
+    return (P, _info(info)) if return_info else P
 
 
 def _repr(self: Polytope) -> str:
@@ -112,4 +138,5 @@ Polytope.irredundant = _irredundant
 Polytope.redundant_rows = _redundant_rows
 Polytope.affine_hull = _affine_hull
 Polytope.vertices = _vertices
+Polytope.from_vertices = staticmethod(_from_vertices)
 Polytope.__repr__ = _repr

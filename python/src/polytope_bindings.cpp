@@ -106,11 +106,15 @@ void register_polytope(py::module_& m) {
       .def_static("simplex", &Polytope::simplex, py::arg("n"))
       .def_static("empty", &Polytope::empty, py::arg("n"))
       .def_static(
-          "from_vertices",
+          "_from_vertices",
           [](py::object V, bool exact) {
             const Matrix Vm = to_matrix(V, "V");
-            py::gil_scoped_release release;
-            return Polytope::from_vertices(Vm, exact);
+            Info info;
+            Polytope P = [&] {
+              py::gil_scoped_release release;
+              return Polytope::from_vertices(Vm, exact, &info);
+            }();
+            return py::make_tuple(P, info_dict(info));
           },
           py::arg("V"), py::kw_only(), py::arg("exact") = false)
       .def_property_readonly("A", [](const Polytope& P) { return Matrix(P.A()); })
@@ -224,16 +228,21 @@ void register_polytope(py::module_& m) {
           py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none())
       .def("_vertices",
            [](const Polytope& P, bool exact) {
-             py::gil_scoped_release release;
-             return P.vertices(exact);
+             Info info;
+             Matrix V = [&] {
+               py::gil_scoped_release release;
+               return P.vertices(exact, &info);
+             }();
+             return py::make_tuple(V, info_dict(info));
            })
       .def("_vertices_exact", [](const Polytope& P) {
         RationalMatrix R;
+        Info info;
         {
           py::gil_scoped_release release;
-          R = P.vertices_exact();
+          R = P.vertices_exact(&info);
         }
-        return rational_matrix(R);
+        return py::make_tuple(rational_matrix(R), info_dict(info));
       });
 }
 

@@ -130,10 +130,14 @@ class Polytope {
     return P;
   }
 
-  /// Convex hull of the rows of V (k points in R^n), by double description through cddlib.
-  /// Repeated points and points inside the hull are allowed; a hull of lower dimension is
-  /// stored with its equalities as pairs of opposite rows. exact: GMP rationals.
-  static Polytope from_vertices(const Matrix& V, bool exact = false);
+  /// Convex hull of the rows of V (k points in R^n) as its facets, each once (irredundant).
+  /// A full-dimensional hull in floating point (n >= 2) comes from qhull (quickhull, Barber,
+  /// Dobkin & Huhdanpaa 1996), validated, with exact cddlib as the fallback; a hull of lower
+  /// dimension, n = 1 and exact=true (GMP rationals) use double description through cddlib
+  /// and store the hull's equalities as pairs of opposite rows (see enumeration.hpp).
+  /// Repeated points and points inside the hull are allowed. info (may be null) receives
+  /// method ("qhull", "cdd", "cdd-exact"; empty for no points), fallbacks and seconds.
+  static Polytope from_vertices(const Matrix& V, bool exact = false, Info* info = nullptr);
 
   // --- data -------------------------------------------------------------------------------
   const Matrix& A() const { return A_; }
@@ -229,12 +233,18 @@ class Polytope {
   /// orthonormal equations. Throws InvalidInputError if the set is empty.
   AffineHull affine_hull(const Options& opt = {}) const;
 
-  /// Vertices by double description through cddlib (float, or GMP rationals when exact),
-  /// one per row. Throws UnboundedSetError if the set is unbounded; an empty set gives 0 rows.
-  Matrix vertices(bool exact = false) const;
+  /// Vertices, each once, one per row. A full-dimensional set in floating point (n >= 2):
+  /// qhull on the polar of the set about its Chebyshev centre, validated, with exact cddlib as
+  /// the fallback; sets of lower dimension and n = 1: double description through cddlib in
+  /// double; exact=true: cddlib in GMP rationals (see enumeration.hpp). Throws
+  /// UnboundedSetError if the set is unbounded; an empty set gives 0 rows. info (may be null)
+  /// receives method ("qhull", "cdd", "cdd-exact"; empty for the canonical empty set),
+  /// fallbacks (answers redone by exact cddlib, plus LP re-solves), LP counts and seconds.
+  Matrix vertices(bool exact = false, Info* info = nullptr) const;
 
   /// Vertices in exact rationals (cddlib, GMP). Throws UnboundedSetError if unbounded.
-  RationalMatrix vertices_exact() const;
+  /// info (may be null) receives method "cdd-exact" and seconds.
+  RationalMatrix vertices_exact(Info* info = nullptr) const;
 
   /// Builds a polytope from already normalised rows and their sources (no re-normalisation).
   static Polytope from_normalized(Matrix A, Vector b, std::vector<Index> source,

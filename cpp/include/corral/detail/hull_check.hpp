@@ -1,0 +1,519 @@
+#pragma once
+/// \file detail/hull_check.hpp
+/// Turns the hull that qhull returns (detail/qhull.hpp: facets and ridges as point indices;
+/// nothing else of qhull's is used) into facets or vertices recomputed from the caller's own
+/// data, and validates the result. Both enumerations are written in one form, the vertices
+/// of {y : r_i·y <= s_i} with s_i > 0 (the origin strictly inside):
+///
+/// - vertex enumeration: r_i are the unit rows, s_i their slacks at the interior point; the
+///   facets are those of the hull of the polar points r_i / s_i;
+/// - facet enumeration: r_i are the centred, scaled points and s_i = 1; a "vertex" y is the
+///   facet {w : y·w <= 1} of their hull (polarity).
+///
+/// Every vertex is recomputed from the rows of its qhull facet (least squares; an n x n solve
+/// for a simplicial facet). Adjacent qhull facets are grouped when each one's vertex rows are
+/// tight at the other's vertex (a facet of the hull that qhull left in pieces), and again
+/// when two groups turn out to have the same tight rows. The result is accepted only if:
+/// 1. every ridge (its n - 1 indices) is listed by exactly two qhull facets, and the ridges
+///    of each group form a closed cycle: every (n - 2)-subset of their indices occurs an even
+///    number of times (ridges inside a group cancel);
+/// 2. every row holds at every vertex within the tolerance, and the vertex rows of each
+///    group's qhull facets are tight at its recomputed vertex;
+/// 3. the rows tight at each vertex have rank n (n affinely independent points on a facet);
+/// 4. no two vertices have the same tight rows, and every edge between adjacent vertices
+///    (their common tight rows, rank n - 1) has exactly two end vertices: in facet terms,
+///    every ridge lies in exactly two facets.
+/// By 1 and 2 the groups form a closed surface (mod 2) of pieces of supporting hyperplanes,
+/// each piece bounded by its own ridges; such a surface covers the whole boundary of the hull,
+/// so a facet that qhull lost, or merged into a coarser one, makes a check fail.
+///
+/// Slacks are distances in the caller's working (preconditioned) coordinates: for vertex
+/// enumeration s_i - r_i·y with unit rows, judged at tol times max |y|_inf over the vertices;
+/// for facet enumeration the distance (1 - r_i·y) / |y| of point i from facet y, judged at
+/// tol (the points are centred and scaled to extent 1). Ranks use the same tol as the
+/// relative threshold on pivots of unit rows.
+
+#include <corral/detail/qhull.hpp>
+#include <corral/types.hpp>
+
+#include <Eigen/LU>
+#include <Eigen/QR>
+
+#include <algorithm>
+#include <cmath>
+#include <cstdint>
+#include <numeric>
+#include <string>
+#include <utility>
+#include <vector>
+
+namespace corral::detail {
+
+/// What the rows and slacks mean (see the file comment).
+enum class PolarMode { vertices, facets };
+
+/// Vertices of {y : r_i·y <= s_i} recomputed from qhull's hull of the polar points, and the
+/// checks.
+struct PolarCheck {
+  bool ok = false;
+  std::string failure;                    ///< the first check that failed, when !ok
+  Matrix objects;                         ///< one vertex y per row
+  std::vector<std::vector<Index>> tight;  ///< rows tight at each vertex, ascending
+  long groups_of_several = 0;             ///< vertices recomputed from several qhull facets
+};
+
+namespace hull_check {
+
+// Union-find over qhull facets.
+inline Index find_root(std::vector<Index>& parent, Index a) {
+  while (parent[static_cast<size_t>(a)] != a) {
+    parent[static_cast<size_t>(a)] = parent[static_cast<size_t>(parent[static_cast<size_t>(a)])];
+    a = parent[static_cast<size_t>(a)];
+  }
+  return a;
+}
+inline void unite(std::vector<Index>& parent, Index a, Index b) {
+  a = find_root(parent, a);
+  b = find_root(parent, b);
+  if (a != b) parent[static_cast<size_t>(std::max(a, b))] = std::min(a, b);
+}
+
+// Numerical rank of the unit rows `rows` of U (relative pivot threshold tol).
+inline Index rank_of(const Matrix& U, const std::vector<Index>& rows, double tol) {
+  Eigen::MatrixXd M(static_cast<Index>(rows.size()), U.cols());
+  for (size_t k = 0; k < rows.size(); ++k) M.row(static_cast<Index>(k)) = U.row(rows[k]);
+  Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(M);
+  qr.setThreshold(tol);
+  return qr.rank();
+}
+
+// Least-squares solution of U_rows y = u_rows; false when the rows have rank < n.
+inline bool solve_rows(const Matrix& U, const Vector& u, const std::vector<Index>& rows, double tol,
+                       Eigen::Ref<Eigen::RowVectorXd> y) {
+  const Index n = U.cols();
+  Eigen::MatrixXd M(static_cast<Index>(rows.size()), n);
+  Eigen::VectorXd rhs(M.rows());
+  for (size_t p = 0; p < rows.size(); ++p) {
+    M.row(static_cast<Index>(p)) = U.row(rows[p]);
+    rhs(static_cast<Index>(p)) = u(rows[p]);
+  }
+  if (M.rows() == n) {
+    Eigen::FullPivLU<Eigen::MatrixXd> lu(M);
+    lu.setThreshold(tol);
+    if (lu.rank() < n) return false;
+    y = lu.solve(rhs).transpose();
+    return true;
+  }
+  Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(M);
+  qr.setThreshold(tol);
+  if (qr.rank() < n) return false;
+  y = qr.solve(rhs).transpose();
+  return true;
+}
+
+inline bool sorted_includes(const std::vector<Index>& big, const std::vector<Index>& small) {
+  return std::includes(big.begin(), big.end(), small.begin(), small.end());
+}
+
+// Order-independent hashes of sets of row indices: the sum of one random 64-bit word per row
+// (splitmix64), so that the hash of a set without one element is one subtraction. Equal
+// hashes are always confirmed by comparing the sets.
+inline std::vector<std::uint64_t> row_words(Index k) {
+  std::vector<std::uint64_t> z(static_cast<size_t>(k));
+  std::uint64_t x = 0x9e3779b97f4a7c15ULL;
+  for (auto& w : z) {
+    x += 0x9e3779b97f4a7c15ULL;
+    std::uint64_t v = x;
+    v = (v ^ (v >> 30)) * 0xbf58476d1ce4e5b9ULL;
+    v = (v ^ (v >> 27)) * 0x94d049bb133111ebULL;
+    w = v ^ (v >> 31);
+  }
+  return z;
+}
+
+// Calls visit(first, last) for every run of entries with equal keys, where entries are sorted
+// by (hash, ...) and same(a, b) compares two entries' keys exactly (hash collisions split a
+// run). Stops and returns false as soon as visit does.
+template <class Entry, class Same, class Visit>
+bool for_each_equal(std::vector<Entry>& sorted, Same same, Visit visit) {
+  std::vector<Entry> run, rest;
+  for (size_t p = 0; p < sorted.size();) {
+    size_t q = p + 1;
+    while (q < sorted.size() && sorted[q].first == sorted[p].first) ++q;
+    run.assign(sorted.begin() + static_cast<std::ptrdiff_t>(p),
+               sorted.begin() + static_cast<std::ptrdiff_t>(q));
+    p = q;
+    while (!run.empty()) {
+      std::vector<Entry> equal;
+      rest.clear();
+      for (const Entry& e : run) (same(run.front(), e) ? equal : rest).push_back(e);
+      if (!visit(equal)) return false;
+      run.swap(rest);
+    }
+  }
+  return true;
+}
+
+}  // namespace hull_check
+
+/// See the file comment. R: k x n rows; s: k positive right-hand sides; hull: qhull's facets
+/// and ridges of the polar points; tol: the relative tolerance (Options::tolerance()).
+inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRun& hull,
+                                 PolarMode mode, double tol) {
+  using hull_check::find_root;
+  using Entry = std::pair<std::uint64_t, Index>;
+  PolarCheck out;
+  const Index n = R.cols(), k = R.rows();
+  const Index F = hull.num_facets();
+  const Index NR = static_cast<Index>(hull.ridge_owner.size());
+  auto fail = [&out](std::string why) {
+    out.ok = false;
+    out.failure = "validation: " + std::move(why);
+    return out;
+  };
+  if (n < 2 || F < n + 1 || static_cast<Index>(hull.ridge_points.size()) != NR * (n - 1))
+    return fail("qhull's hull has fewer than n + 1 facets");
+
+  // Unit rows and their right-hand sides (the rows of vertex enumeration are unit already).
+  Matrix U(k, n);
+  Vector u(k), inv_norm(k);
+  for (Index i = 0; i < k; ++i) {
+    if (!(s(i) > 0.0))
+      return fail("the right-hand side of row " + std::to_string(i) + " is not positive");
+    const double nr = R.row(i).norm();
+    if (!(nr > 0.0) && mode == PolarMode::vertices)
+      return fail("row " + std::to_string(i) + " is zero");
+    // A zero row (a point at the centre, in facet enumeration) holds strictly everywhere; it
+    // is never tight, and a facet containing it has rank < n.
+    inv_norm(i) = nr > 0.0 ? 1.0 / nr : 0.0;
+    U.row(i) = R.row(i) * inv_norm(i);
+    u(i) = s(i) * inv_norm(i);
+  }
+  auto yscale_of = [](const Eigen::Ref<const Vector>& y) {
+    const double nr = y.norm();
+    return nr > 0.0 ? 1.0 / nr : 0.0;
+  };
+  // Slack of row i at y, in the distance of the mode (yscale = 1 / |y| for facets).
+  auto slack = [&](Index i, const Eigen::Ref<const Vector>& y, double yscale) {
+    const double v = s(i) - R.row(i).dot(y);
+    return mode == PolarMode::facets ? v * yscale : v * inv_norm(i);
+  };
+
+  // qhull's facets (sorted rows) and ridges (sorted rows).
+  std::vector<std::vector<Index>> facet_rows(static_cast<size_t>(F));
+  for (Index f = 0; f < F; ++f) {
+    auto& fr = facet_rows[static_cast<size_t>(f)];
+    for (int p = hull.facet_start[static_cast<size_t>(f)];
+         p < hull.facet_start[static_cast<size_t>(f + 1)]; ++p) {
+      const int id = hull.facet_points[static_cast<size_t>(p)];
+      if (id < 0 || id >= k) return fail("qhull returned an index out of range");
+      fr.push_back(id);
+    }
+    std::sort(fr.begin(), fr.end());
+    if (static_cast<Index>(fr.size()) < n || std::adjacent_find(fr.begin(), fr.end()) != fr.end())
+      return fail("a facet of qhull's hull has fewer than n distinct vertices");
+  }
+  const Index nk = n - 1;
+  std::vector<Index> ridge_ids(static_cast<size_t>(NR * nk));
+  auto ridge_at = [&ridge_ids, nk](Index r) { return ridge_ids.data() + r * nk; };
+  for (Index r = 0; r < NR; ++r) {
+    const int owner = hull.ridge_owner[static_cast<size_t>(r)];
+    if (owner < 0 || owner >= F) return fail("qhull returned a ridge of no facet");
+    for (Index j = 0; j < nk; ++j) {
+      const int id = hull.ridge_points[static_cast<size_t>(r * nk + j)];
+      if (id < 0 || id >= k) return fail("qhull returned an index out of range");
+      ridge_at(r)[j] = id;
+    }
+    std::sort(ridge_at(r), ridge_at(r) + nk);
+  }
+  const std::vector<std::uint64_t> word = hull_check::row_words(k);
+
+  // Check 1, first part: every ridge listed by exactly two facets. Equal ridges meet after
+  // sorting by hash.
+  std::vector<std::pair<Index, Index>> adjacent;  // ridge entries (r, r') of the same ridge
+  {
+    std::vector<Entry> entry(static_cast<size_t>(NR));
+    for (Index r = 0; r < NR; ++r) {
+      std::uint64_t h = 0;
+      for (Index j = 0; j < nk; ++j) h += word[static_cast<size_t>(ridge_at(r)[j])];
+      entry[static_cast<size_t>(r)] = {h, r};
+    }
+    std::sort(entry.begin(), entry.end());
+    auto same = [&](const Entry& a, const Entry& b) {
+      return std::equal(ridge_at(a.second), ridge_at(a.second) + nk, ridge_at(b.second));
+    };
+    std::string why;
+    const bool closed = hull_check::for_each_equal(entry, same, [&](const std::vector<Entry>& e) {
+      const Index ra = e.front().second;
+      if (e.size() != 2 || hull.ridge_owner[static_cast<size_t>(ra)] ==
+                               hull.ridge_owner[static_cast<size_t>(e.back().second)]) {
+        why = "a ridge of qhull's hull is listed by " + std::to_string(e.size()) +
+              " facets (the boundary is not closed)";
+        return false;
+      }
+      adjacent.emplace_back(ra, e.back().second);
+      return true;
+    });
+    if (!closed) return fail(why);
+  }
+
+  // Candidate vertex of each qhull facet, and the grouping of adjacent pieces.
+  Matrix Y(F, n);
+  std::vector<char> simplex_full(static_cast<size_t>(F), 0);  // n rows of rank n
+  for (Index f = 0; f < F; ++f) {
+    const auto& fr = facet_rows[static_cast<size_t>(f)];
+    if (!hull_check::solve_rows(U, u, fr, tol, Y.row(f)))
+      return fail("the vertex rows of a facet of qhull's hull have rank < n");
+    simplex_full[static_cast<size_t>(f)] = static_cast<Index>(fr.size()) == n;
+  }
+  double cand_scale = Y.cwiseAbs().maxCoeff();
+  if (!(cand_scale > 0.0) || !std::isfinite(cand_scale))
+    return fail("a vertex from qhull's facets is not finite");
+  const double group_tol = mode == PolarMode::facets ? tol : tol * cand_scale;
+  std::vector<Index> parent(static_cast<size_t>(F));
+  std::iota(parent.begin(), parent.end(), Index{0});
+  {
+    std::vector<std::pair<Index, Index>> facet_pairs;
+    for (const auto& [ra, rb] : adjacent) {
+      const Index fa = hull.ridge_owner[static_cast<size_t>(ra)];
+      const Index fb = hull.ridge_owner[static_cast<size_t>(rb)];
+      facet_pairs.emplace_back(std::min(fa, fb), std::max(fa, fb));
+    }
+    std::sort(facet_pairs.begin(), facet_pairs.end());
+    facet_pairs.erase(std::unique(facet_pairs.begin(), facet_pairs.end()), facet_pairs.end());
+    auto rows_tight_at = [&](Index f, Index at) {
+      const double ys = yscale_of(Y.row(at).transpose());
+      for (Index i : facet_rows[static_cast<size_t>(f)])
+        if (std::abs(slack(i, Y.row(at).transpose(), ys)) > group_tol) return false;
+      return true;
+    };
+    for (const auto& [fa, fb] : facet_pairs)
+      if (rows_tight_at(fb, fa) && rows_tight_at(fa, fb)) hull_check::unite(parent, fa, fb);
+  }
+
+  // Groups and their rows; each group's vertex is recomputed by least squares on its rows,
+  // then check 2. Groups with the same tight rows are one vertex (facet): they are merged and
+  // the groups rebuilt, once.
+  std::vector<Index> group_of(static_cast<size_t>(F));
+  std::vector<Index> first_facet, count;
+  std::vector<std::vector<Index>> group_rows;
+  Index G = 0;
+  for (int pass = 0;; ++pass) {
+    std::vector<Index> root_group(static_cast<size_t>(F), -1);
+    first_facet.clear();
+    count.clear();
+    for (Index f = 0; f < F; ++f) {
+      const Index r = find_root(parent, f);
+      if (root_group[static_cast<size_t>(r)] < 0) {
+        root_group[static_cast<size_t>(r)] = static_cast<Index>(first_facet.size());
+        first_facet.push_back(f);
+        count.push_back(0);
+      }
+      group_of[static_cast<size_t>(f)] = root_group[static_cast<size_t>(r)];
+      ++count[static_cast<size_t>(group_of[static_cast<size_t>(f)])];
+    }
+    G = static_cast<Index>(first_facet.size());
+    if (G < n + 1) return fail("fewer than n + 1 vertices (facets) after grouping");
+    group_rows.assign(static_cast<size_t>(G), {});
+    for (Index f = 0; f < F; ++f) {
+      auto& gr = group_rows[static_cast<size_t>(group_of[static_cast<size_t>(f)])];
+      gr.insert(gr.end(), facet_rows[static_cast<size_t>(f)].begin(),
+                facet_rows[static_cast<size_t>(f)].end());
+    }
+    out.objects.resize(G, n);
+    out.groups_of_several = 0;
+    for (Index g = 0; g < G; ++g) {
+      auto& gr = group_rows[static_cast<size_t>(g)];
+      std::sort(gr.begin(), gr.end());
+      gr.erase(std::unique(gr.begin(), gr.end()), gr.end());
+      if (count[static_cast<size_t>(g)] == 1) {
+        out.objects.row(g) = Y.row(first_facet[static_cast<size_t>(g)]);
+        continue;
+      }
+      ++out.groups_of_several;
+      if (!hull_check::solve_rows(U, u, gr, tol, out.objects.row(g)))
+        return fail("the rows of a group of facets have rank < n");
+    }
+    if (!out.objects.allFinite()) return fail("a recomputed vertex is not finite");
+
+    // Check 2: every row at every vertex; collect the tight rows. Blocks of vertices keep
+    // the product R Y^T small.
+    const double abs_tol =
+        mode == PolarMode::facets ? tol : tol * out.objects.cwiseAbs().maxCoeff();
+    out.tight.assign(static_cast<size_t>(G), {});
+    Vector yscale(G);
+    for (Index g = 0; g < G; ++g) yscale(g) = yscale_of(out.objects.row(g).transpose());
+    const Index block = 256;
+    for (Index g0 = 0; g0 < G; g0 += block) {
+      const Index B = std::min(block, G - g0);
+      const Matrix P = R * out.objects.middleRows(g0, B).transpose();  // k x B
+      for (Index i = 0; i < k; ++i)
+        for (Index c = 0; c < B; ++c) {
+          const double v = s(i) - P(i, c);
+          const double sl = mode == PolarMode::facets ? v * yscale(g0 + c) : v * inv_norm(i);
+          if (sl < -abs_tol)
+            return fail((mode == PolarMode::facets ? "point " : "row ") + std::to_string(i) +
+                        " is outside " + (mode == PolarMode::facets ? "facet " : "at vertex ") +
+                        std::to_string(g0 + c) + " by " + std::to_string(-sl));
+          if (sl <= abs_tol) out.tight[static_cast<size_t>(g0 + c)].push_back(i);
+        }
+    }
+    for (Index g = 0; g < G; ++g)
+      if (!hull_check::sorted_includes(out.tight[static_cast<size_t>(g)],
+                                       group_rows[static_cast<size_t>(g)]))
+        return fail(
+            "a vertex row of a qhull facet is not tight at its recomputed vertex "
+            "(facet " +
+            std::to_string(g) + ")");
+
+    // Distinct tight sets (check 4, first part); equal ones are merged once.
+    std::vector<Index> order(static_cast<size_t>(G));
+    std::iota(order.begin(), order.end(), Index{0});
+    std::sort(order.begin(), order.end(), [&out](Index a, Index b) {
+      return out.tight[static_cast<size_t>(a)] < out.tight[static_cast<size_t>(b)];
+    });
+    bool merged = false;
+    for (size_t p = 1; p < order.size(); ++p) {
+      const Index ga = order[p - 1], gb = order[p];
+      if (out.tight[static_cast<size_t>(ga)] != out.tight[static_cast<size_t>(gb)]) continue;
+      if (pass > 0) return fail("two vertices (facets) have the same tight rows");
+      hull_check::unite(parent, first_facet[static_cast<size_t>(ga)],
+                        first_facet[static_cast<size_t>(gb)]);
+      merged = true;
+    }
+    if (!merged) break;
+  }
+
+  // Check 1, second part: the ridges of each group form a closed cycle mod 2. Entries: the
+  // (n - 2)-subsets of every ridge entry, keyed by (group, subset); every key must occur an
+  // even number of times.
+  {
+    std::vector<Entry> sub;
+    sub.reserve(static_cast<size_t>(NR * nk));
+    for (Index r = 0; r < NR; ++r) {
+      const Index g = group_of[static_cast<size_t>(hull.ridge_owner[static_cast<size_t>(r)])];
+      std::uint64_t h =
+          word[static_cast<size_t>(g % k)] * 0x2545f4914f6cdd1dULL + static_cast<std::uint64_t>(g);
+      for (Index j = 0; j < nk; ++j) h += word[static_cast<size_t>(ridge_at(r)[j])];
+      for (Index j = 0; j < nk; ++j)
+        sub.emplace_back(h - word[static_cast<size_t>(ridge_at(r)[j])], r * nk + j);
+    }
+    std::sort(sub.begin(), sub.end());
+    auto same = [&](const Entry& a, const Entry& b) {
+      const Index ra = a.second / nk, ja = a.second % nk, rb = b.second / nk, jb = b.second % nk;
+      if (group_of[static_cast<size_t>(hull.ridge_owner[static_cast<size_t>(ra)])] !=
+          group_of[static_cast<size_t>(hull.ridge_owner[static_cast<size_t>(rb)])])
+        return false;
+      for (Index p = 0, qa = 0, qb = 0; p < nk - 1; ++p, ++qa, ++qb) {
+        if (qa == ja) ++qa;
+        if (qb == jb) ++qb;
+        if (ridge_at(ra)[qa] != ridge_at(rb)[qb]) return false;
+      }
+      return true;
+    };
+    const bool closed = hull_check::for_each_equal(
+        sub, same, [](const std::vector<Entry>& e) { return e.size() % 2 == 0; });
+    if (!closed) return fail("the ridges of a facet do not close up (a hole in its boundary)");
+  }
+
+  // Check 3: tight rows of rank n at each vertex.
+  for (Index g = 0; g < G; ++g) {
+    const auto& T = out.tight[static_cast<size_t>(g)];
+    const Index f0 = first_facet[static_cast<size_t>(g)];
+    // A single simplicial facet whose n x n solve had rank n needs no factorisation.
+    const bool known = count[static_cast<size_t>(g)] == 1 && simplex_full[static_cast<size_t>(f0)];
+    if (static_cast<Index>(T.size()) < n || (!known && hull_check::rank_of(U, T, tol) < n))
+      return fail("the rows tight at vertex (facet) " + std::to_string(g) + " have rank < n");
+  }
+
+  // Check 4: every edge (ridge) with exactly two ends (facets). Vertices (facets) containing
+  // a set E of rows are counted in two parts: those with exactly n tight rows through the
+  // hashes of their (n - 1)-subsets (the simple or simplicial case, where a row lies at many
+  // vertices), and the others through per-row lists (short in degenerate cases such as
+  // boxes).
+  std::vector<std::vector<Index>> at_row_big(static_cast<size_t>(k));
+  std::vector<Entry> keys;  // (hash, g * n + j): T_g without T_g[j]
+  for (Index g = 0; g < G; ++g) {
+    const auto& T = out.tight[static_cast<size_t>(g)];
+    if (static_cast<Index>(T.size()) == n) {
+      std::uint64_t h = 0;
+      for (Index i : T) h += word[static_cast<size_t>(i)];
+      for (Index j = 0; j < n; ++j)
+        keys.emplace_back(h - word[static_cast<size_t>(T[static_cast<size_t>(j)])], g * n + j);
+    } else {
+      for (Index i : T) at_row_big[static_cast<size_t>(i)].push_back(g);
+    }
+  }
+  std::sort(keys.begin(), keys.end());
+  auto key_equals = [&out, n, nk](Index e, const std::vector<Index>& E) {
+    const auto& T = out.tight[static_cast<size_t>(e / n)];
+    for (Index p = 0, q = 0; p < nk; ++p, ++q) {
+      if (q == e % n) ++q;
+      if (T[static_cast<size_t>(q)] != E[static_cast<size_t>(p)]) return false;
+    }
+    return true;
+  };
+  auto count_containing = [&](const std::vector<Index>& E) {
+    long found = 0;
+    if (static_cast<Index>(E.size()) == nk) {
+      std::uint64_t h = 0;
+      for (Index i : E) h += word[static_cast<size_t>(i)];
+      auto it = std::lower_bound(keys.begin(), keys.end(), Entry{h, Index{-1}});
+      for (; it != keys.end() && it->first == h; ++it)
+        if (key_equals(it->second, E)) ++found;
+    }
+    Index r1 = E[0];
+    for (Index i : E)
+      if (at_row_big[static_cast<size_t>(i)].size() < at_row_big[static_cast<size_t>(r1)].size())
+        r1 = i;
+    for (Index f : at_row_big[static_cast<size_t>(r1)])
+      if (hull_check::sorted_includes(out.tight[static_cast<size_t>(f)], E)) ++found;
+    return found;
+  };
+  // Adjacent groups through a ridge, and whether that ridge comes from a full-rank simplicial
+  // facet (then its n - 1 rows are independent).
+  struct Pair {
+    Index a, b, ridge;
+    bool full;
+  };
+  std::vector<Pair> pairs;
+  for (const auto& [ra, rb] : adjacent) {
+    const Index fa = hull.ridge_owner[static_cast<size_t>(ra)];
+    const Index fb = hull.ridge_owner[static_cast<size_t>(rb)];
+    const Index ga = group_of[static_cast<size_t>(fa)], gb = group_of[static_cast<size_t>(fb)];
+    if (ga == gb) continue;
+    pairs.push_back(
+        {std::min(ga, gb), std::max(ga, gb), ra,
+         simplex_full[static_cast<size_t>(fa)] || simplex_full[static_cast<size_t>(fb)]});
+  }
+  std::sort(pairs.begin(), pairs.end(), [](const Pair& x, const Pair& y) {
+    return x.a != y.a ? x.a < y.a : x.b != y.b ? x.b < y.b : x.full > y.full;
+  });
+  std::vector<Index> E, ridge;
+  for (size_t p = 0; p < pairs.size(); ++p) {
+    const Pair& pr = pairs[p];
+    const bool first_of_pair = p == 0 || pairs[p - 1].a != pr.a || pairs[p - 1].b != pr.b;
+    const auto& Ta = out.tight[static_cast<size_t>(pr.a)];
+    const auto& Tb = out.tight[static_cast<size_t>(pr.b)];
+    ridge.assign(ridge_at(pr.ridge), ridge_at(pr.ridge) + nk);
+    // Every ridge lies on both sides (its rows tight at both vertices).
+    if (!hull_check::sorted_includes(Ta, ridge) || !hull_check::sorted_includes(Tb, ridge))
+      return fail("a ridge of qhull's hull is not on both its facets");
+    if (!first_of_pair) continue;
+    E.clear();
+    std::set_intersection(Ta.begin(), Ta.end(), Tb.begin(), Tb.end(), std::back_inserter(E));
+    // E contains the ridge; equal to it and from a full-rank simplex, its rank is n - 1.
+    const bool known = pr.full && static_cast<Index>(E.size()) == nk;
+    const Index r = known ? nk : hull_check::rank_of(U, E, tol);
+    if (r >= n)
+      return fail("adjacent vertices (facets) " + std::to_string(pr.a) + " and " +
+                  std::to_string(pr.b) + " coincide");
+    if (r < nk) continue;  // touch in a lower face only (through a degenerate ridge)
+    if (count_containing(E) != 2)
+      return fail("an edge (ridge) does not have exactly two end vertices (facets)");
+  }
+  out.ok = true;
+  return out;
+}
+
+}  // namespace corral::detail

@@ -1,0 +1,198 @@
+// Convex hulls through qhull's reentrant library, libqhull_r: quickhull (Barber, Dobkin &
+// Huhdanpaa 1996, "The Quickhull algorithm for convex hulls", ACM TOMS 22(4)).
+//
+// CONFIGURATION (to be completed after the experiments)
+
+#include <corral/detail/qhull.hpp>
+
+#include <csetjmp>
+#include <cstdio>
+#include <cstdlib>
+#include <cstring>
+#include <string>
+#include <vector>
+
+extern "C" {
+#include <libqhull_r/qhull_ra.h>
+}
+
+namespace corral::detail {
+namespace {
+
+// Everything the C-style frame reads and writes: plain data only. Arrays are malloc'ed by
+// read_facets and freed by the caller.
+struct QhullCall {
+  int dim;
+  int num_points;
+  double* points;     // num_points * dim, row after row (qhull does not modify it)
+  char* command;      // "qhull <options>"
+  FILE* errfile;      // qhull's messages
+  long num_facets;    // out
+  int* facet_start;   // out: num_facets + 1 offsets into facet_points
+  int* facet_points;  // out: point ids of the vertices of each facet
+  long num_ridges;    // out: ridge entries (each ridge once per facet it bounds)
+  int* ridge_owner;   // out: facet index of each ridge entry
+  int* ridge_points;  // out: dim - 1 point ids per ridge entry
+  long num_merged;    // out: facets that are not simplicial or come from merges
+  int exit_code;      // out
+  int read_error;     // out: 1 malformed output, 2 out of memory
+};
+
+// Reads the facets and ridges of a finished run. Called under the caller's setjmp: a qhull
+// error raised here (qh_setsize checks its sets) jumps back to run_qhull, not through C++
+// frames. A simplicial facet's ridges are its vertex sets without one vertex; a
+// non-simplicial (merged) facet lists its ridges explicitly, each a simplex of dim - 1
+// vertices (several may lie between the same two facets).
+void read_facets(qhT* qh, QhullCall* c) {
+  facetT* facet;
+  vertexT *vertex, **vertexp;
+  ridgeT *ridge, **ridgep;
+  const int d = c->dim;
+  long nf = 0, nv = 0, nr = 0;
+  FORALLfacets {
+    ++nf;
+    nv += qh_setsize(qh, facet->vertices);
+    nr += facet->simplicial ? d : qh_setsize(qh, facet->ridges);
+  }
+  c->facet_start = static_cast<int*>(std::malloc(sizeof(int) * static_cast<size_t>(nf + 1)));
+  c->facet_points = static_cast<int*>(std::malloc(sizeof(int) * static_cast<size_t>(nv + 1)));
+  c->ridge_owner = static_cast<int*>(std::malloc(sizeof(int) * static_cast<size_t>(nr + 1)));
+  c->ridge_points =
+      static_cast<int*>(std::malloc(sizeof(int) * static_cast<size_t>((nr + 1) * (d - 1))));
+  if (!c->facet_start || !c->facet_points || !c->ridge_owner || !c->ridge_points) {
+    c->read_error = 2;
+    return;
+  }
+  long f = 0, v = 0, r = 0;
+  FORALLfacets {
+    c->facet_start[f] = static_cast<int>(v);
+    if (!facet->simplicial || facet->nummerge > 0) ++c->num_merged;
+    FOREACHvertex_(facet->vertices) { c->facet_points[v++] = qh_pointid(qh, vertex->point); }
+    if (facet->simplicial) {
+      if (v - c->facet_start[f] != d) {
+        c->read_error = 1;
+        return;
+      }
+      for (int j = 0; j < d; ++j, ++r) {
+        c->ridge_owner[r] = static_cast<int>(f);
+        int q = 0;
+        for (int p = 0; p < d; ++p)
+          if (p != j) c->ridge_points[r * (d - 1) + q++] = c->facet_points[c->facet_start[f] + p];
+      }
+    } else {
+      FOREACHridge_(facet->ridges) {
+        if (qh_setsize(qh, ridge->vertices) != d - 1) {
+          c->read_error = 1;
+          return;
+        }
+        c->ridge_owner[r] = static_cast<int>(f);
+        int q = 0;
+        FOREACHvertex_(ridge->vertices) {
+          c->ridge_points[r * (d - 1) + q++] = qh_pointid(qh, vertex->point);
+        }
+        ++r;
+      }
+    }
+    ++f;
+  }
+  c->facet_start[f] = static_cast<int>(v);
+  c->num_facets = f;
+  c->num_ridges = r;
+}
+
+// The one C-style frame around qhull: no C++ object with a destructor lives in it, so the
+// longjmp of qhull's error handling (inside qh_new_qhull, and the guard around read_facets)
+// never unwinds a C++ frame.
+void run_qhull(QhullCall* c) {
+  qhT* qh = static_cast<qhT*>(std::malloc(sizeof(qhT)));
+  if (qh == nullptr) {
+    c->exit_code = qh_ERRmem;
+    return;
+  }
+  QHULL_LIB_CHECK  // the headers match the library (a mismatch is a broken installation)
+      qh_zero(qh, c->errfile);
+  c->exit_code =
+      qh_new_qhull(qh, c->dim, c->num_points, c->points, False, c->command, nullptr, c->errfile);
+  if (c->exit_code == 0) {
+    qh->NOerrexit = False;
+    if (setjmp(qh->errexit) == 0) read_facets(qh, c);
+    else c->exit_code = qh_ERRqhull;
+    qh->NOerrexit = True;
+  }
+  qh_freeqhull(qh, !qh_ALL);
+  int curlong = 0, totlong = 0;
+  qh_memfreeshort(qh, &curlong, &totlong);
+  std::free(qh);
+}
+
+// The first line of qhull's messages that names an error (QH6xxx / QH7xxx), or the first
+// line, at most `limit` characters.
+std::string first_error_line(FILE* f, size_t limit) {
+  std::fflush(f);
+  std::rewind(f);
+  std::string text;
+  char buf[512];
+  size_t got;
+  while (text.size() < 16 * limit && (got = std::fread(buf, 1, sizeof buf, f)) > 0)
+    text.append(buf, got);
+  size_t start = text.find("QH6");
+  if (start == std::string::npos) start = text.find("QH7");
+  if (start == std::string::npos) start = 0;
+  std::string line = text.substr(start, text.find('\n', start) - start);
+  if (line.size() > limit) line = line.substr(0, limit) + "...";
+  return line.empty() ? "no message" : line;
+}
+
+}  // namespace
+
+const char* qhull_default_options() { return ""; }
+
+QhullRun qhull_hull(const Matrix& points, const std::string& options) {
+  QhullRun run;
+  const Index n = points.cols(), k = points.rows();
+  if (n < 2 || k < n + 1) {
+    run.exit_code = qh_ERRinput;
+    run.message = "qhull: needs dimension >= 2 and at least dimension + 1 points";
+    return run;
+  }
+  std::vector<double> coords(points.data(), points.data() + points.size());  // row-major
+  std::string command = "qhull " + options;
+  std::vector<char> cmd(command.begin(), command.end());
+  cmd.push_back('\0');
+  FILE* errfile = std::tmpfile();
+  if (errfile == nullptr) {
+    run.exit_code = qh_ERRother;
+    run.message = "qhull: could not open a temporary file for its messages";
+    return run;
+  }
+  QhullCall call{};
+  call.dim = static_cast<int>(n);
+  call.num_points = static_cast<int>(k);
+  call.points = coords.data();
+  call.command = cmd.data();
+  call.errfile = errfile;
+  run_qhull(&call);
+  run.exit_code = call.exit_code;
+  if (call.exit_code == 0 && call.read_error == 0) {
+    run.ok = true;
+    run.facet_start.assign(call.facet_start, call.facet_start + call.num_facets + 1);
+    run.facet_points.assign(call.facet_points, call.facet_points + run.facet_start.back());
+    run.ridge_owner.assign(call.ridge_owner, call.ridge_owner + call.num_ridges);
+    run.ridge_points.assign(call.ridge_points, call.ridge_points + call.num_ridges * (n - 1));
+    run.merged_facets = call.num_merged;
+  } else if (call.exit_code == 0) {
+    run.message = call.read_error == 1 ? "qhull: malformed facet or ridge in its output"
+                                       : "qhull: out of memory reading its output";
+  } else {
+    run.message = "qhull (exit code " + std::to_string(call.exit_code) +
+                  "): " + first_error_line(errfile, 300);
+  }
+  std::free(call.facet_start);
+  std::free(call.facet_points);
+  std::free(call.ridge_owner);
+  std::free(call.ridge_points);
+  std::fclose(errfile);
+  return run;
+}
+
+}  // namespace corral::detail
