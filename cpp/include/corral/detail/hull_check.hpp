@@ -42,6 +42,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
+#include <limits>
 #include <numeric>
 #include <string>
 #include <utility>
@@ -87,29 +88,37 @@ inline Index rank_of(const Matrix& U, const std::vector<Index>& rows, double tol
   return qr.rank();
 }
 
-// Least-squares solution of U_rows y = u_rows; false when the rows have rank < n.
-inline bool solve_rows(const Matrix& U, const Vector& u, const std::vector<Index>& rows, double tol,
-                       Eigen::Ref<Eigen::RowVectorXd> y) {
-  const Index n = U.cols();
-  Eigen::MatrixXd M(static_cast<Index>(rows.size()), n);
-  Eigen::VectorXd rhs(M.rows());
-  for (size_t p = 0; p < rows.size(); ++p) {
-    M.row(static_cast<Index>(p)) = U.row(rows[p]);
-    rhs(static_cast<Index>(p)) = u(rows[p]);
-  }
-  if (M.rows() == n) {
-    Eigen::FullPivLU<Eigen::MatrixXd> lu(M);
-    lu.setThreshold(tol);
-    if (lu.rank() < n) return false;
-    y = lu.solve(rhs).transpose();
+// Least-squares solution of U_rows y = u_rows; false when the rows have rank < n. The
+// factorisations and their storage are kept between calls (one solver per validation).
+struct RowSolver {
+  Eigen::MatrixXd M;
+  Eigen::VectorXd rhs;
+  Eigen::FullPivLU<Eigen::MatrixXd> lu;
+  Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr;
+
+  bool solve(const Matrix& U, const Vector& u, const std::vector<Index>& rows, double tol,
+             Eigen::Ref<Eigen::RowVectorXd> y) {
+    const Index n = U.cols();
+    M.resize(static_cast<Index>(rows.size()), n);
+    rhs.resize(M.rows());
+    for (size_t p = 0; p < rows.size(); ++p) {
+      M.row(static_cast<Index>(p)) = U.row(rows[p]);
+      rhs(static_cast<Index>(p)) = u(rows[p]);
+    }
+    if (M.rows() == n) {
+      lu.compute(M);
+      lu.setThreshold(tol);
+      if (lu.rank() < n) return false;
+      y = lu.solve(rhs).transpose();
+      return true;
+    }
+    qr.compute(M);
+    qr.setThreshold(tol);
+    if (qr.rank() < n) return false;
+    y = qr.solve(rhs).transpose();
     return true;
   }
-  Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(M);
-  qr.setThreshold(tol);
-  if (qr.rank() < n) return false;
-  y = qr.solve(rhs).transpose();
-  return true;
-}
+};
 
 inline bool sorted_includes(const std::vector<Index>& big, const std::vector<Index>& small) {
   return std::includes(big.begin(), big.end(), small.begin(), small.end());
@@ -131,28 +140,123 @@ inline std::vector<std::uint64_t> row_words(Index k) {
   return z;
 }
 
-// Calls visit(first, last) for every run of entries with equal keys, where entries are sorted
-// by (hash, ...) and same(a, b) compares two entries' keys exactly (hash collisions split a
-// run). Stops and returns false as soon as visit does.
+// Calls visit(first, count) for every run of entries with equal keys, where entries are
+// sorted by (hash, ...) and same(a, b) compares two entries' keys exactly (hash collisions
+// split a run). Stops and returns false as soon as visit does.
 template <class Entry, class Same, class Visit>
-bool for_each_equal(std::vector<Entry>& sorted, Same same, Visit visit) {
-  std::vector<Entry> run, rest;
+bool for_each_equal(const std::vector<Entry>& sorted, Same same, Visit visit) {
+  std::vector<Entry> run, rest, equal;
   for (size_t p = 0; p < sorted.size();) {
     size_t q = p + 1;
     while (q < sorted.size() && sorted[q].first == sorted[p].first) ++q;
+    // The common case, one key in the run: visited in place.
+    bool one_key = true;
+    for (size_t t = p + 1; t < q && one_key; ++t) one_key = same(sorted[p], sorted[t]);
+    if (one_key) {
+      if (!visit(sorted.data() + p, q - p)) return false;
+      p = q;
+      continue;
+    }
     run.assign(sorted.begin() + static_cast<std::ptrdiff_t>(p),
                sorted.begin() + static_cast<std::ptrdiff_t>(q));
     p = q;
     while (!run.empty()) {
-      std::vector<Entry> equal;
+      equal.clear();
       rest.clear();
       for (const Entry& e : run) (same(run.front(), e) ? equal : rest).push_back(e);
-      if (!visit(equal)) return false;
+      if (!visit(equal.data(), equal.size())) return false;
       run.swap(rest);
     }
   }
   return true;
 }
+
+// Bounding boxes over a point set, for finding the points where a linear function may reach
+// a threshold without evaluating it at all of them: a k-d tree (Bentley 1975, CACM 18(9)),
+// split at the median of the widest coordinate down to leaves of at most `leaf` points, each
+// node with its box (centre c, half-widths h) and the largest per-point offset below it.
+struct BoxTree {
+  struct Node {
+    Index begin, end;             // points perm[begin .. end)
+    Index left = -1, right = -1;  // children, or -1 for a leaf
+    double max_off = 0.0;
+  };
+  std::vector<Node> nodes;
+  std::vector<Index> perm;
+  Matrix Yp;            // the points in tree order
+  Vector offp;          // their offsets in tree order
+  Matrix centre, half;  // one row per node
+
+  BoxTree(const Matrix& Y, const Vector& off, Index leaf) {
+    const Index G = Y.rows();
+    perm.resize(static_cast<size_t>(G));
+    std::iota(perm.begin(), perm.end(), Index{0});
+    build(Y, off, 0, G, leaf);
+    Yp.resize(G, Y.cols());
+    offp.resize(G);
+    for (Index p = 0; p < G; ++p) {
+      Yp.row(p) = Y.row(perm[static_cast<size_t>(p)]);
+      offp(p) = off(perm[static_cast<size_t>(p)]);
+    }
+    centre.resize(static_cast<Index>(nodes.size()), Y.cols());
+    half.resize(static_cast<Index>(nodes.size()), Y.cols());
+    for (size_t v = 0; v < nodes.size(); ++v) {
+      const Node& nd = nodes[v];
+      const auto block = Yp.middleRows(nd.begin, nd.end - nd.begin);
+      const Eigen::RowVectorXd mx = block.colwise().maxCoeff(), mn = block.colwise().minCoeff();
+      centre.row(static_cast<Index>(v)) = 0.5 * (mx + mn);
+      half.row(static_cast<Index>(v)) = 0.5 * (mx - mn);
+      nodes[v].max_off = offp.segment(nd.begin, nd.end - nd.begin).maxCoeff();
+    }
+  }
+
+  // Calls visit(g) for every point g (an index into the original Y) where r·y_g + off_g may
+  // be >= threshold, in increasing tree order; skips only points where it is certainly below
+  // (the box bound r·c + |r|·h, plus a margin for its rounding).
+  template <class Visit>
+  void candidates(const Eigen::Ref<const Eigen::RowVectorXd>& r, double threshold,
+                  std::vector<Index>& stack, Visit visit) const {
+    const Eigen::RowVectorXd ra = r.cwiseAbs();
+    stack.clear();
+    stack.push_back(0);
+    while (!stack.empty()) {
+      const Node& nd = nodes[static_cast<size_t>(stack.back())];
+      const Index v = stack.back();
+      stack.pop_back();
+      const double centre_dot = centre.row(v).dot(r), spread = half.row(v).dot(ra);
+      const double size = centre.row(v).cwiseAbs().dot(ra) + spread;
+      if (centre_dot + spread + nd.max_off + 1e-12 * size < threshold) continue;
+      if (nd.left >= 0) {
+        stack.push_back(nd.right);
+        stack.push_back(nd.left);
+        continue;
+      }
+      for (Index p = nd.begin; p < nd.end; ++p) visit(p);
+    }
+  }
+
+ private:
+  Index build(const Matrix& Y, const Vector& off, Index begin, Index end, Index leaf) {
+    const Index v = static_cast<Index>(nodes.size());
+    nodes.push_back({begin, end});
+    if (end - begin <= leaf) return v;
+    Eigen::RowVectorXd mx = Y.row(perm[static_cast<size_t>(begin)]), mn = mx;
+    for (Index p = begin + 1; p < end; ++p) {
+      mx = mx.cwiseMax(Y.row(perm[static_cast<size_t>(p)]));
+      mn = mn.cwiseMin(Y.row(perm[static_cast<size_t>(p)]));
+    }
+    Index axis = 0;
+    (mx - mn).maxCoeff(&axis);
+    const Index mid = begin + (end - begin) / 2;
+    std::nth_element(perm.begin() + begin, perm.begin() + mid, perm.begin() + end,
+                     [&Y, axis](Index a, Index b) { return Y(a, axis) < Y(b, axis); });
+    const Index l = build(Y, off, begin, mid, leaf);
+    const Index r = build(Y, off, mid, end, leaf);
+    nodes[static_cast<size_t>(v)].left = l;
+    nodes[static_cast<size_t>(v)].right = r;
+    return v;
+  }
+};
 
 }  // namespace hull_check
 
@@ -243,26 +347,27 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       return std::equal(ridge_at(a.second), ridge_at(a.second) + nk, ridge_at(b.second));
     };
     std::string why;
-    const bool closed = hull_check::for_each_equal(entry, same, [&](const std::vector<Entry>& e) {
-      const Index ra = e.front().second;
-      if (e.size() != 2 || hull.ridge_owner[static_cast<size_t>(ra)] ==
-                               hull.ridge_owner[static_cast<size_t>(e.back().second)]) {
-        why = "a ridge of qhull's hull is listed by " + std::to_string(e.size()) +
+    const bool closed = hull_check::for_each_equal(entry, same, [&](const Entry* e, size_t count) {
+      const Index ra = e[0].second;
+      if (count != 2 || hull.ridge_owner[static_cast<size_t>(ra)] ==
+                            hull.ridge_owner[static_cast<size_t>(e[1].second)]) {
+        why = "a ridge of qhull's hull is listed by " + std::to_string(count) +
               " facets (the boundary is not closed)";
         return false;
       }
-      adjacent.emplace_back(ra, e.back().second);
+      adjacent.emplace_back(ra, e[1].second);
       return true;
     });
     if (!closed) return fail(why);
   }
 
   // Candidate vertex of each qhull facet, and the grouping of adjacent pieces.
+  hull_check::RowSolver solver;
   Matrix Y(F, n);
   std::vector<char> simplex_full(static_cast<size_t>(F), 0);  // n rows of rank n
   for (Index f = 0; f < F; ++f) {
     const auto& fr = facet_rows[static_cast<size_t>(f)];
-    if (!hull_check::solve_rows(U, u, fr, tol, Y.row(f)))
+    if (!solver.solve(U, u, fr, tol, Y.row(f)))
       return fail("the vertex rows of a facet of qhull's hull have rank < n");
     simplex_full[static_cast<size_t>(f)] = static_cast<Index>(fr.size()) == n;
   }
@@ -331,32 +436,55 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
         continue;
       }
       ++out.groups_of_several;
-      if (!hull_check::solve_rows(U, u, gr, tol, out.objects.row(g)))
+      if (!solver.solve(U, u, gr, tol, out.objects.row(g)))
         return fail("the rows of a group of facets have rank < n");
     }
     if (!out.objects.allFinite()) return fail("a recomputed vertex is not finite");
 
-    // Check 2: every row at every vertex; collect the tight rows. Blocks of vertices keep
-    // the product R Y^T small.
+    // Check 2: every row at every vertex; collect the tight rows.
     const double abs_tol =
         mode == PolarMode::facets ? tol : tol * out.objects.cwiseAbs().maxCoeff();
     out.tight.assign(static_cast<size_t>(G), {});
-    Vector yscale(G);
-    for (Index g = 0; g < G; ++g) yscale(g) = yscale_of(out.objects.row(g).transpose());
-    const Index block = 256;
-    for (Index g0 = 0; g0 < G; g0 += block) {
-      const Index B = std::min(block, G - g0);
-      const Matrix P = R * out.objects.middleRows(g0, B).transpose();  // k x B
-      for (Index i = 0; i < k; ++i)
-        for (Index c = 0; c < B; ++c) {
-          const double v = s(i) - P(i, c);
-          const double sl = mode == PolarMode::facets ? v * yscale(g0 + c) : v * inv_norm(i);
-          if (sl < -abs_tol)
-            return fail((mode == PolarMode::facets ? "point " : "row ") + std::to_string(i) +
-                        " is outside " + (mode == PolarMode::facets ? "facet " : "at vertex ") +
-                        std::to_string(g0 + c) + " by " + std::to_string(-sl));
-          if (sl <= abs_tol) out.tight[static_cast<size_t>(g0 + c)].push_back(i);
-        }
+    for (auto& t : out.tight) t.reserve(static_cast<size_t>(n));
+    // The tests in terms of the products r_i·y, in one pass over them: row i is tight at
+    // vertex g when r_i·y_g >= lo_i - off_g and violated when r_i·y_g > hi_i + off_g. For
+    // vertices, slack (s_i - r_i·y) / |r_i| against abs_tol gives lo, hi = s_i -/+ abs_tol |r_i|
+    // and off = 0; for facets, slack (s_i - r_i·y) / |y| against tol gives lo = hi = s_i and
+    // off = tol |y| (+inf for y = 0, whose slack is 0 everywhere: tight, never violated).
+    Vector lo(k), hi(k), off(G);
+    for (Index i = 0; i < k; ++i) {
+      const double band = mode == PolarMode::facets ? 0.0 : abs_tol / inv_norm(i);
+      lo(i) = s(i) - band;
+      hi(i) = s(i) + band;
+    }
+    for (Index g = 0; g < G; ++g) {
+      const double ys = yscale_of(out.objects.row(g).transpose());
+      off(g) = mode == PolarMode::vertices ? 0.0
+               : ys > 0.0                  ? tol / ys
+                                           : std::numeric_limits<double>::infinity();
+    }
+    // Only the vertices that a box of the tree does not rule out are evaluated (the rest
+    // have r_i·y + off < lo_i <= hi_i, so they are neither tight nor violated); rows go in
+    // increasing order, so each tight list comes out sorted.
+    const hull_check::BoxTree tree(out.objects, off, 16);
+    std::vector<Index> stack;
+    for (Index i = 0; i < k; ++i) {
+      const double l = lo(i), h = hi(i);
+      const auto r = R.row(i);
+      Index bad = -1;
+      tree.candidates(r, l, stack, [&](Index p) {
+        const double v = tree.Yp.row(p).dot(r);
+        if (v + tree.offp(p) < l) return;  // not tight
+        const Index g = tree.perm[static_cast<size_t>(p)];
+        if (v - tree.offp(p) > h) bad = g;
+        out.tight[static_cast<size_t>(g)].push_back(i);
+      });
+      if (bad >= 0) {
+        const Vector y = out.objects.row(bad).transpose();
+        return fail((mode == PolarMode::facets ? "point " : "row ") + std::to_string(i) +
+                    " is outside " + (mode == PolarMode::facets ? "facet " : "at vertex ") +
+                    std::to_string(bad) + " by " + std::to_string(-slack(i, y, yscale_of(y))));
+      }
     }
     for (Index g = 0; g < G; ++g)
       if (!hull_check::sorted_includes(out.tight[static_cast<size_t>(g)],
@@ -367,30 +495,52 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
             std::to_string(g) + ")");
 
     // Distinct tight sets (check 4, first part); equal ones are merged once.
-    std::vector<Index> order(static_cast<size_t>(G));
-    std::iota(order.begin(), order.end(), Index{0});
-    std::sort(order.begin(), order.end(), [&out](Index a, Index b) {
-      return out.tight[static_cast<size_t>(a)] < out.tight[static_cast<size_t>(b)];
-    });
-    bool merged = false;
-    for (size_t p = 1; p < order.size(); ++p) {
-      const Index ga = order[p - 1], gb = order[p];
-      if (out.tight[static_cast<size_t>(ga)] != out.tight[static_cast<size_t>(gb)]) continue;
-      if (pass > 0) return fail("two vertices (facets) have the same tight rows");
-      hull_check::unite(parent, first_facet[static_cast<size_t>(ga)],
-                        first_facet[static_cast<size_t>(gb)]);
-      merged = true;
+    // Sorted by the hash of the tight set; equal sets have equal hashes and are confirmed by
+    // comparing the sets.
+    std::vector<Entry> order(static_cast<size_t>(G));
+    for (Index g = 0; g < G; ++g) {
+      std::uint64_t h = 0;
+      for (Index i : out.tight[static_cast<size_t>(g)]) h += word[static_cast<size_t>(i)];
+      order[static_cast<size_t>(g)] = {h, g};
     }
+    std::sort(order.begin(), order.end());
+    bool merged = false;
+    for (size_t p = 0; p < order.size(); ++p)
+      for (size_t q = p + 1; q < order.size() && order[q].first == order[p].first; ++q) {
+        const Index ga = order[p].second, gb = order[q].second;
+        if (out.tight[static_cast<size_t>(ga)] != out.tight[static_cast<size_t>(gb)]) continue;
+        if (pass > 0) return fail("two vertices (facets) have the same tight rows");
+        hull_check::unite(parent, first_facet[static_cast<size_t>(ga)],
+                          first_facet[static_cast<size_t>(gb)]);
+        merged = true;
+      }
     if (!merged) break;
   }
 
   // Check 1, second part: the ridges of each group form a closed cycle mod 2. Entries: the
   // (n - 2)-subsets of every ridge entry, keyed by (group, subset); every key must occur an
-  // even number of times.
+  // even number of times. A group of one facet with n vertices and n ridges, each n - 1 of
+  // its vertices, passes trivially: n distinct (n - 1)-subsets of an n-set (distinct by the
+  // first part) are all of them, the boundary of a simplex. Such groups, the common case of
+  // a simple polytope (simplicial hull), are skipped.
   {
-    std::vector<Entry> sub;
-    sub.reserve(static_cast<size_t>(NR * nk));
+    std::vector<Index> ridges_of(static_cast<size_t>(F), 0);
+    std::vector<char> simplex_boundary(static_cast<size_t>(F), 1);
     for (Index r = 0; r < NR; ++r) {
+      const Index f = hull.ridge_owner[static_cast<size_t>(r)];
+      ++ridges_of[static_cast<size_t>(f)];
+      const auto& fr = facet_rows[static_cast<size_t>(f)];
+      if (!std::includes(fr.begin(), fr.end(), ridge_at(r), ridge_at(r) + nk))
+        simplex_boundary[static_cast<size_t>(f)] = 0;
+    }
+    auto trivial = [&](Index f) {
+      return count[static_cast<size_t>(group_of[static_cast<size_t>(f)])] == 1 &&
+             static_cast<Index>(facet_rows[static_cast<size_t>(f)].size()) == n &&
+             ridges_of[static_cast<size_t>(f)] == n && simplex_boundary[static_cast<size_t>(f)];
+    };
+    std::vector<Entry> sub;
+    for (Index r = 0; r < NR; ++r) {
+      if (trivial(hull.ridge_owner[static_cast<size_t>(r)])) continue;
       const Index g = group_of[static_cast<size_t>(hull.ridge_owner[static_cast<size_t>(r)])];
       std::uint64_t h =
           word[static_cast<size_t>(g % k)] * 0x2545f4914f6cdd1dULL + static_cast<std::uint64_t>(g);
@@ -412,7 +562,7 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       return true;
     };
     const bool closed = hull_check::for_each_equal(
-        sub, same, [](const std::vector<Entry>& e) { return e.size() % 2 == 0; });
+        sub, same, [](const Entry*, size_t count) { return count % 2 == 0; });
     if (!closed) return fail("the ridges of a facet do not close up (a hole in its boundary)");
   }
 
@@ -431,6 +581,13 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   // hashes of their (n - 1)-subsets (the simple or simplicial case, where a row lies at many
   // vertices), and the others through per-row lists (short in degenerate cases such as
   // boxes).
+  //
+  // 4a. A vertex with exactly n tight rows (of rank n, check 3) is simple: each of its n
+  // (n - 1)-subsets E spans an edge, which has exactly two end vertices, and no other
+  // vertex contains E. So every such key must be contained in exactly two vertices; this
+  // covers every edge at a simple vertex, whether qhull reported the adjacency or not.
+  // 4b. For the other adjacent pairs that qhull reports: the ridge lies on both sides, and
+  // the common tight rows, when they have rank n - 1, lie in exactly two vertices.
   std::vector<std::vector<Index>> at_row_big(static_cast<size_t>(k));
   std::vector<Entry> keys;  // (hash, g * n + j): T_g without T_g[j]
   for (Index g = 0; g < G; ++g) {
@@ -470,6 +627,46 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       if (hull_check::sorted_includes(out.tight[static_cast<size_t>(f)], E)) ++found;
     return found;
   };
+  bool any_big = false;
+  for (const auto& l : at_row_big) any_big = any_big || !l.empty();
+  {
+    std::vector<Index> E(static_cast<size_t>(nk));
+    auto key_rows = [&out, n, nk, &E](Index e) {
+      const auto& T = out.tight[static_cast<size_t>(e / n)];
+      for (Index p = 0, q = 0; p < nk; ++p, ++q) {
+        if (q == e % n) ++q;
+        E[static_cast<size_t>(p)] = T[static_cast<size_t>(q)];
+      }
+    };
+    auto same_key = [&](const Entry& a, const Entry& b) {
+      key_rows(a.second);
+      return key_equals(b.second, E);
+    };
+    std::string why;
+    const bool two_ends =
+        hull_check::for_each_equal(keys, same_key, [&](const Entry* e, size_t count) {
+          long ends = static_cast<long>(count);
+          if (any_big) {
+            key_rows(e[0].second);
+            Index r1 = E[0];
+            for (Index i : E)
+              if (at_row_big[static_cast<size_t>(i)].size() <
+                  at_row_big[static_cast<size_t>(r1)].size())
+                r1 = i;
+            for (Index f : at_row_big[static_cast<size_t>(r1)])
+              if (hull_check::sorted_includes(out.tight[static_cast<size_t>(f)], E)) ++ends;
+          }
+          if (ends == 2) return true;
+          why = "an edge (ridge) at vertex (facet) " + std::to_string(e[0].second / n) + " has " +
+                std::to_string(ends) + " end vertices (facets), not two";
+          return false;
+        });
+    if (!two_ends) return fail(why);
+  }
+  // A simple vertex: exactly n tight rows (rank n by check 3).
+  auto fast = [&](Index g) {
+    return static_cast<Index>(out.tight[static_cast<size_t>(g)].size()) == n;
+  };
   // Adjacent groups through a ridge, and whether that ridge comes from a full-rank simplicial
   // facet (then its n - 1 rows are independent).
   struct Pair {
@@ -499,7 +696,9 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     // Every ridge lies on both sides (its rows tight at both vertices).
     if (!hull_check::sorted_includes(Ta, ridge) || !hull_check::sorted_includes(Tb, ridge))
       return fail("a ridge of qhull's hull is not on both its facets");
-    if (!first_of_pair) continue;
+    // Two simple vertices: their common tight rows contain the ridge (n - 1 rows) and are not
+    // all n rows (the tight sets are distinct), so they are a key that 4a checked.
+    if (!first_of_pair || (fast(pr.a) && fast(pr.b))) continue;
     E.clear();
     std::set_intersection(Ta.begin(), Ta.end(), Tb.begin(), Tb.end(), std::back_inserter(E));
     // E contains the ridge; equal to it and from a full-rank simplex, its rank is n - 1.
