@@ -15,10 +15,11 @@
 //   cddlib. A merge that qhull made within the tolerance is a facet at that tolerance.
 // - Options change qhull's speed little on the inputs measured (random polytopes, n = 3 and
 //   5, 500 points: "", Qt, Q0, Qx and Q0 Qt within 15 % of one another).
-// Messages go to a temporary file that is read back for the error text.
+// Messages go to a stream in memory that is read back for the error text.
 
 #include <corral/detail/qhull.hpp>
 
+#include <algorithm>
 #include <csetjmp>
 #include <cstdio>
 #include <cstdlib>
@@ -139,23 +140,52 @@ void run_qhull(QhullCall* c) {
   std::free(qh);
 }
 
-// The first line of qhull's messages that names an error (QH6xxx / QH7xxx), or the first
-// line, at most `limit` characters.
-std::string first_error_line(FILE* f, size_t limit) {
-  std::fflush(f);
-  std::rewind(f);
-  std::string text;
-  char buf[512];
-  size_t got;
-  while (text.size() < 16 * limit && (got = std::fread(buf, 1, sizeof buf, f)) > 0)
-    text.append(buf, got);
-  size_t start = text.find("QH6");
-  if (start == std::string::npos) start = text.find("QH7");
-  if (start == std::string::npos) start = 0;
-  std::string line = text.substr(start, text.find('\n', start) - start);
-  if (line.size() > limit) line = line.substr(0, limit) + "...";
-  return line.empty() ? "no message" : line;
-}
+// Where qhull writes its messages: a stream in memory (POSIX open_memstream), or a temporary
+// file where that is not available (a file costs a file-system round trip per call, as much
+// as the hull of a few hundred points in 3-D).
+class MessageSink {
+ public:
+  MessageSink() {
+#if defined(_POSIX_C_SOURCE) && _POSIX_C_SOURCE >= 200809L
+    file_ = open_memstream(&mem_, &size_);
+#endif
+    if (file_ == nullptr) file_ = std::tmpfile();
+  }
+  MessageSink(const MessageSink&) = delete;
+  MessageSink& operator=(const MessageSink&) = delete;
+  ~MessageSink() {
+    if (file_ != nullptr) std::fclose(file_);
+    std::free(mem_);
+  }
+  FILE* file() const { return file_; }
+
+  // The first line that names an error (QH6xxx / QH7xxx), or the first line, at most `limit`
+  // characters.
+  std::string first_error_line(size_t limit) {
+    std::fflush(file_);
+    std::string text;
+    if (mem_ != nullptr) {
+      text.assign(mem_, std::min(size_, 16 * limit));
+    } else {
+      std::rewind(file_);
+      char buf[512];
+      size_t got;
+      while (text.size() < 16 * limit && (got = std::fread(buf, 1, sizeof buf, file_)) > 0)
+        text.append(buf, got);
+    }
+    size_t start = text.find("QH6");
+    if (start == std::string::npos) start = text.find("QH7");
+    if (start == std::string::npos) start = 0;
+    std::string line = text.substr(start, text.find('\n', start) - start);
+    if (line.size() > limit) line = line.substr(0, limit) + "...";
+    return line.empty() ? "no message" : line;
+  }
+
+ private:
+  FILE* file_ = nullptr;
+  char* mem_ = nullptr;
+  size_t size_ = 0;
+};
 
 }  // namespace
 
@@ -173,10 +203,10 @@ QhullRun qhull_hull(const Matrix& points, const std::string& options) {
   std::string command = "qhull " + options;
   std::vector<char> cmd(command.begin(), command.end());
   cmd.push_back('\0');
-  FILE* errfile = std::tmpfile();
-  if (errfile == nullptr) {
+  MessageSink messages;
+  if (messages.file() == nullptr) {
     run.exit_code = qh_ERRother;
-    run.message = "qhull: could not open a temporary file for its messages";
+    run.message = "qhull: could not open a stream for its messages";
     return run;
   }
   QhullCall call{};
@@ -184,7 +214,7 @@ QhullRun qhull_hull(const Matrix& points, const std::string& options) {
   call.num_points = static_cast<int>(k);
   call.points = coords.data();
   call.command = cmd.data();
-  call.errfile = errfile;
+  call.errfile = messages.file();
   run_qhull(&call);
   run.exit_code = call.exit_code;
   if (call.exit_code == 0 && call.read_error == 0) {
@@ -199,13 +229,12 @@ QhullRun qhull_hull(const Matrix& points, const std::string& options) {
                                        : "qhull: out of memory reading its output";
   } else {
     run.message = "qhull (exit code " + std::to_string(call.exit_code) +
-                  "): " + first_error_line(errfile, 300);
+                  "): " + messages.first_error_line(300);
   }
   std::free(call.facet_start);
   std::free(call.facet_points);
   std::free(call.ridge_owner);
   std::free(call.ridge_points);
-  std::fclose(errfile);
   return run;
 }
 

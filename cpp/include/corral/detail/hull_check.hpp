@@ -523,21 +523,21 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   // its vertices, passes trivially: n distinct (n - 1)-subsets of an n-set (distinct by the
   // first part) are all of them, the boundary of a simplex. Such groups, the common case of
   // a simple polytope (simplicial hull), are skipped.
+  std::vector<Index> ridges_of(static_cast<size_t>(F), 0);
+  std::vector<char> simplex_boundary(static_cast<size_t>(F), 1);
+  for (Index r = 0; r < NR; ++r) {
+    const Index f = hull.ridge_owner[static_cast<size_t>(r)];
+    ++ridges_of[static_cast<size_t>(f)];
+    const auto& fr = facet_rows[static_cast<size_t>(f)];
+    if (!std::includes(fr.begin(), fr.end(), ridge_at(r), ridge_at(r) + nk))
+      simplex_boundary[static_cast<size_t>(f)] = 0;
+  }
+  auto trivial = [&](Index f) {
+    return count[static_cast<size_t>(group_of[static_cast<size_t>(f)])] == 1 &&
+           static_cast<Index>(facet_rows[static_cast<size_t>(f)].size()) == n &&
+           ridges_of[static_cast<size_t>(f)] == n && simplex_boundary[static_cast<size_t>(f)];
+  };
   {
-    std::vector<Index> ridges_of(static_cast<size_t>(F), 0);
-    std::vector<char> simplex_boundary(static_cast<size_t>(F), 1);
-    for (Index r = 0; r < NR; ++r) {
-      const Index f = hull.ridge_owner[static_cast<size_t>(r)];
-      ++ridges_of[static_cast<size_t>(f)];
-      const auto& fr = facet_rows[static_cast<size_t>(f)];
-      if (!std::includes(fr.begin(), fr.end(), ridge_at(r), ridge_at(r) + nk))
-        simplex_boundary[static_cast<size_t>(f)] = 0;
-    }
-    auto trivial = [&](Index f) {
-      return count[static_cast<size_t>(group_of[static_cast<size_t>(f)])] == 1 &&
-             static_cast<Index>(facet_rows[static_cast<size_t>(f)].size()) == n &&
-             ridges_of[static_cast<size_t>(f)] == n && simplex_boundary[static_cast<size_t>(f)];
-    };
     std::vector<Entry> sub;
     for (Index r = 0; r < NR; ++r) {
       if (trivial(hull.ridge_owner[static_cast<size_t>(r)])) continue;
@@ -588,9 +588,20 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   // covers every edge at a simple vertex, whether qhull reported the adjacency or not.
   // 4b. For the other adjacent pairs that qhull reports: the ridge lies on both sides, and
   // the common tight rows, when they have rank n - 1, lie in exactly two vertices.
+  //
+  // When every vertex is a trivial group (above) with exactly n tight rows, those rows are
+  // its qhull facet's, and its n ridges are all their (n - 1)-subsets: the keys of 4a are
+  // then exactly the ridges, which check 1 found listed by exactly two facets each, and 4a
+  // is skipped.
+  bool all_simple_facets = true;
+  for (Index f = 0; f < F && all_simple_facets; ++f)
+    all_simple_facets =
+        trivial(f) &&
+        static_cast<Index>(
+            out.tight[static_cast<size_t>(group_of[static_cast<size_t>(f)])].size()) == n;
   std::vector<std::vector<Index>> at_row_big(static_cast<size_t>(k));
   std::vector<Entry> keys;  // (hash, g * n + j): T_g without T_g[j]
-  for (Index g = 0; g < G; ++g) {
+  for (Index g = 0; g < G && !all_simple_facets; ++g) {
     const auto& T = out.tight[static_cast<size_t>(g)];
     if (static_cast<Index>(T.size()) == n) {
       std::uint64_t h = 0;
@@ -629,7 +640,7 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   };
   bool any_big = false;
   for (const auto& l : at_row_big) any_big = any_big || !l.empty();
-  {
+  if (!all_simple_facets) {
     std::vector<Index> E(static_cast<size_t>(nk));
     auto key_rows = [&out, n, nk, &E](Index e) {
       const auto& T = out.tight[static_cast<size_t>(e / n)];

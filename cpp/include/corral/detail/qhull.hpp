@@ -40,7 +40,7 @@ struct QhullRun {
 const char* qhull_default_options();
 
 /// Hull of the rows of `points` (k x n, n >= 2, finite; not checked here beyond n >= 2 and
-/// k >= n + 1, which give exit code 1). qhull's messages go to a temporary file, never to the
+/// k >= n + 1, which give exit code 1). qhull's messages go to a stream in memory, never to the
 /// terminal; every qhull error is returned, never thrown, and qhull's setjmp/longjmp stays
 /// inside one C-style frame of the wrapper. Thread-safe (one qhull instance per call).
 /// `options`: qhull flags without the "qhull " prefix.
