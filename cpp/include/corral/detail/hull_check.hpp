@@ -684,6 +684,10 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     Index a, b, ridge;
     bool full;
   };
+  // With every vertex a simplex facet whose tight rows are its own, every ridge is n - 1 of
+  // those rows on both sides and every edge is a ridge that check 1 counted: 4b has nothing
+  // left to find.
+  if (all_simple_facets) adjacent.clear();
   std::vector<Pair> pairs;
   for (const auto& [ra, rb] : adjacent) {
     const Index fa = hull.ridge_owner[static_cast<size_t>(ra)];
