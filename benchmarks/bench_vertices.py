@@ -66,16 +66,29 @@ def chebyshev_centre(A, b):
 
 def timed(fn, repeats, budget=2.0):
     """Median of up to `repeats` runs after one warm-up run; stops early past `budget` s."""
-    fn()
-    times = []
+    return timed_pair(fn, None, repeats, budget)[0::2]
+
+
+def timed_pair(fn, baseline, repeats, budget=4.0):
+    """(median time of fn, median time of baseline, fn's result, baseline's result): one
+    warm-up run each, then the two alternate, so that both see the same machine load; up to
+    `repeats` pairs, fewer once `budget` seconds have passed."""
+    out = fn()
+    ref = baseline() if baseline is not None else None
+    times, ref_times = [], []
     start = time.perf_counter()
     for _ in range(repeats):
         t0 = time.perf_counter()
         out = fn()
         times.append(time.perf_counter() - t0)
+        if baseline is not None:
+            t0 = time.perf_counter()
+            ref = baseline()
+            ref_times.append(time.perf_counter() - t0)
         if time.perf_counter() - start > budget:
             break
-    return statistics.median(times), out
+    ref_median = statistics.median(ref_times) if ref_times else None
+    return statistics.median(times), ref_median, out, ref
 
 
 def _cdd_vertices(A, b, queue):
@@ -109,7 +122,7 @@ def main():
     ap.add_argument("--cap", type=float, default=60.0, help="seconds per cddlib run")
     ap.add_argument("--n", default="3,4,5,6")
     ap.add_argument("--m", default="50,100,200,500")
-    ap.add_argument("--repeats", type=int, default=7)
+    ap.add_argument("--repeats", type=int, default=15)
     ap.add_argument(
         "--out", default=os.path.join(os.path.dirname(__file__), "results", "vertices.json")
     )
@@ -136,10 +149,13 @@ def main():
         for m in ms:
             A, b = random_polytope(rng, n, m)
             P = corral.Polytope(A, b)
-            t_c, (V, info) = timed(lambda P=P: P.vertices(return_info=True), args.repeats)
             x0 = chebyshev_centre(A, b)
             H = np.hstack([A, -b[:, None]])
-            t_s, hs = timed(lambda H=H, x0=x0: HalfspaceIntersection(H, x0), args.repeats)
+            t_c, t_s, (V, info), hs = timed_pair(
+                lambda P=P: P.vertices(return_info=True),
+                lambda H=H, x0=x0: HalfspaceIntersection(H, x0),
+                args.repeats,
+            )
             t_d, nv_d = cdd_time(A, b, args.cap)
             exact_cases += info.method == "cdd-exact"
             agree = len(V) == len(hs.intersections) and (nv_d is None or nv_d == len(V))
@@ -199,10 +215,11 @@ def main():
     for n in ns:
         for k in (100, 1000):
             X = rng.normal(size=(k, n))
-            t_c, (Q, info) = timed(
-                lambda X=X: corral.Polytope.from_vertices(X, return_info=True), args.repeats
+            t_c, t_s, (Q, info), ch = timed_pair(
+                lambda X=X: corral.Polytope.from_vertices(X, return_info=True),
+                lambda X=X: ConvexHull(X),
+                args.repeats,
             )
-            t_s, ch = timed(lambda X=X: ConvexHull(X), args.repeats)
             print(
                 f"{n:>2} {k:>5} {Q.num_rows:>6} {info.method:>9} {t_c:9.4f} {t_s:9.4f} "
                 f"{t_c / t_s:12.2f}"

@@ -93,8 +93,55 @@ inline Index rank_of(const Matrix& U, const std::vector<Index>& rows, double tol
 struct RowSolver {
   Eigen::MatrixXd M;
   Eigen::VectorXd rhs;
-  Eigen::FullPivLU<Eigen::MatrixXd> lu;
   Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr;
+  std::vector<Index> col;
+  std::vector<double> z;
+
+  // Gaussian elimination with complete pivoting on M (n x n, column-major) and rhs, in place:
+  // rank < n when a pivot is at most tol times the largest pivot so far (the rule of a
+  // rank-revealing LU). For the small systems here it is several times faster than a general
+  // LU object.
+  bool solve_square(Index n, double tol, Eigen::Ref<Eigen::RowVectorXd> y) {
+    col.resize(static_cast<size_t>(n));
+    std::iota(col.begin(), col.end(), Index{0});
+    double largest = 0.0;
+    for (Index k = 0; k < n; ++k) {
+      Index pi = k, pj = k;
+      double best = -1.0;
+      for (Index j = k; j < n; ++j)
+        for (Index i = k; i < n; ++i)
+          if (std::abs(M(i, j)) > best) {
+            best = std::abs(M(i, j));
+            pi = i;
+            pj = j;
+          }
+      largest = std::max(largest, best);
+      if (!(best > tol * largest) || !(largest > 0.0)) return false;
+      if (pi != k) {
+        M.row(pi).swap(M.row(k));
+        std::swap(rhs(pi), rhs(k));
+      }
+      if (pj != k) {
+        M.col(pj).swap(M.col(k));
+        std::swap(col[static_cast<size_t>(pj)], col[static_cast<size_t>(k)]);
+      }
+      const double piv = M(k, k);
+      for (Index i = k + 1; i < n; ++i) {
+        const double f = M(i, k) / piv;
+        if (f == 0.0) continue;
+        for (Index j = k + 1; j < n; ++j) M(i, j) -= f * M(k, j);
+        rhs(i) -= f * rhs(k);
+      }
+    }
+    z.resize(static_cast<size_t>(n));
+    for (Index k = n - 1; k >= 0; --k) {
+      double v = rhs(k);
+      for (Index j = k + 1; j < n; ++j) v -= M(k, j) * z[static_cast<size_t>(j)];
+      z[static_cast<size_t>(k)] = v / M(k, k);
+    }
+    for (Index k = 0; k < n; ++k) y(col[static_cast<size_t>(k)]) = z[static_cast<size_t>(k)];
+    return true;
+  }
 
   bool solve(const Matrix& U, const Vector& u, const std::vector<Index>& rows, double tol,
              Eigen::Ref<Eigen::RowVectorXd> y) {
@@ -105,13 +152,7 @@ struct RowSolver {
       M.row(static_cast<Index>(p)) = U.row(rows[p]);
       rhs(static_cast<Index>(p)) = u(rows[p]);
     }
-    if (M.rows() == n) {
-      lu.compute(M);
-      lu.setThreshold(tol);
-      if (lu.rank() < n) return false;
-      y = lu.solve(rhs).transpose();
-      return true;
-    }
+    if (M.rows() == n) return solve_square(n, tol, y);
     qr.compute(M);
     qr.setThreshold(tol);
     if (qr.rank() < n) return false;
@@ -183,75 +224,126 @@ struct BoxTree {
   };
   std::vector<Node> nodes;
   std::vector<Index> perm;
-  Matrix Yp;            // the points in tree order
-  Vector offp;          // their offsets in tree order
-  Matrix centre, half;  // one row per node
+  Matrix Yp;    // the points in tree order
+  Vector offp;  // their offsets in tree order
+  // One row per node: the box's centre c, and its half-widths h widened by 1e-12 (|c| + h),
+  // a margin for the rounding of the bound r·c + |r|·h against that of r·y.
+  Matrix centre, spread;
 
   BoxTree(const Matrix& Y, const Vector& off, Index leaf) {
-    const Index G = Y.rows();
+    const Index G = Y.rows(), n = Y.cols();
     perm.resize(static_cast<size_t>(G));
     std::iota(perm.begin(), perm.end(), Index{0});
-    build(Y, off, 0, G, leaf);
-    Yp.resize(G, Y.cols());
+    if (G == 0) return;  // no nodes: candidates() visits nothing
+    nodes.reserve(static_cast<size_t>(2 * (G / std::max<Index>(leaf, 1) + 1)));
+    build(Y, 0, G, leaf);
+    Yp.resize(G, n);
     offp.resize(G);
     for (Index p = 0; p < G; ++p) {
       Yp.row(p) = Y.row(perm[static_cast<size_t>(p)]);
       offp(p) = off(perm[static_cast<size_t>(p)]);
     }
-    centre.resize(static_cast<Index>(nodes.size()), Y.cols());
-    half.resize(static_cast<Index>(nodes.size()), Y.cols());
-    for (size_t v = 0; v < nodes.size(); ++v) {
-      const Node& nd = nodes[v];
-      const auto block = Yp.middleRows(nd.begin, nd.end - nd.begin);
-      const Eigen::RowVectorXd mx = block.colwise().maxCoeff(), mn = block.colwise().minCoeff();
-      centre.row(static_cast<Index>(v)) = 0.5 * (mx + mn);
-      half.row(static_cast<Index>(v)) = 0.5 * (mx - mn);
-      nodes[v].max_off = offp.segment(nd.begin, nd.end - nd.begin).maxCoeff();
+    // Boxes bottom-up: children come after their parent in `nodes`. lo / hi hold the box's
+    // corners until they become its centre and widened half-widths.
+    const Index N = static_cast<Index>(nodes.size());
+    Matrix lo(N, n), hi(N, n);
+    for (Index v = N - 1; v >= 0; --v) {
+      Node& nd = nodes[static_cast<size_t>(v)];
+      double* l = lo.data() + v * n;
+      double* h = hi.data() + v * n;
+      if (nd.left < 0) {
+        for (Index j = 0; j < n; ++j) l[j] = h[j] = Yp(nd.begin, j);
+        nd.max_off = offp(nd.begin);
+        for (Index p = nd.begin + 1; p < nd.end; ++p) {
+          const double* y = Yp.data() + p * n;
+          for (Index j = 0; j < n; ++j) {
+            l[j] = std::min(l[j], y[j]);
+            h[j] = std::max(h[j], y[j]);
+          }
+          nd.max_off = std::max(nd.max_off, offp(p));
+        }
+      } else {
+        const double *la = lo.data() + nd.left * n, *lb = lo.data() + nd.right * n;
+        const double *ha = hi.data() + nd.left * n, *hb = hi.data() + nd.right * n;
+        for (Index j = 0; j < n; ++j) {
+          l[j] = std::min(la[j], lb[j]);
+          h[j] = std::max(ha[j], hb[j]);
+        }
+        nd.max_off = std::max(nodes[static_cast<size_t>(nd.left)].max_off,
+                              nodes[static_cast<size_t>(nd.right)].max_off);
+      }
     }
+    centre.resize(N, n);
+    spread.resize(N, n);
+    for (Index v = 0; v < N; ++v)
+      for (Index j = 0; j < n; ++j) {
+        const double c = 0.5 * (hi(v, j) + lo(v, j)), w = 0.5 * (hi(v, j) - lo(v, j));
+        centre(v, j) = c;
+        spread(v, j) = w + 1e-12 * (std::abs(c) + w);
+      }
   }
 
-  // Calls visit(g) for every point g (an index into the original Y) where r·y_g + off_g may
-  // be >= threshold, in increasing tree order; skips only points where it is certainly below
-  // (the box bound r·c + |r|·h, plus a margin for its rounding).
+  // Calls visit(p, r·y) for every point p (in tree order: the original index is perm[p]) where
+  // r·y_p + off_p may be >= threshold; skips only boxes where it is certainly below. r: n
+  // values; stack and ra: scratch.
   template <class Visit>
-  void candidates(const Eigen::Ref<const Eigen::RowVectorXd>& r, double threshold,
-                  std::vector<Index>& stack, Visit visit) const {
-    const Eigen::RowVectorXd ra = r.cwiseAbs();
+  void candidates(const double* r, double threshold, std::vector<Index>& stack,
+                  std::vector<double>& ra, Visit visit) const {
+    const Index n = Yp.cols();
+    ra.resize(static_cast<size_t>(n));
+    for (Index j = 0; j < n; ++j) ra[static_cast<size_t>(j)] = std::abs(r[j]);
     stack.clear();
-    stack.push_back(0);
+    if (!nodes.empty()) stack.push_back(0);
     while (!stack.empty()) {
-      const Node& nd = nodes[static_cast<size_t>(stack.back())];
       const Index v = stack.back();
       stack.pop_back();
-      const double centre_dot = centre.row(v).dot(r), spread = half.row(v).dot(ra);
-      const double size = centre.row(v).cwiseAbs().dot(ra) + spread;
-      if (centre_dot + spread + nd.max_off + 1e-12 * size < threshold) continue;
+      const Node& nd = nodes[static_cast<size_t>(v)];
+      const double* c = centre.data() + v * n;
+      const double* h = spread.data() + v * n;
+      double bound = nd.max_off;
+      for (Index j = 0; j < n; ++j) bound += c[j] * r[j] + h[j] * ra[static_cast<size_t>(j)];
+      if (bound < threshold) continue;
       if (nd.left >= 0) {
         stack.push_back(nd.right);
         stack.push_back(nd.left);
         continue;
       }
-      for (Index p = nd.begin; p < nd.end; ++p) visit(p);
+      for (Index p = nd.begin; p < nd.end; ++p) {
+        const double* y = Yp.data() + p * n;
+        double d = 0.0;
+        for (Index j = 0; j < n; ++j) d += y[j] * r[j];
+        visit(p, d);
+      }
     }
   }
 
  private:
-  Index build(const Matrix& Y, const Vector& off, Index begin, Index end, Index leaf) {
+  // Splits perm[begin .. end) at the median of its widest coordinate, recursively; returns the
+  // node's index (a parent comes before its children).
+  Index build(const Matrix& Y, Index begin, Index end, Index leaf) {
     const Index v = static_cast<Index>(nodes.size());
     nodes.push_back({begin, end});
     if (end - begin <= leaf) return v;
-    Eigen::RowVectorXd mx = Y.row(perm[static_cast<size_t>(begin)]), mn = mx;
-    for (Index p = begin + 1; p < end; ++p) {
-      mx = mx.cwiseMax(Y.row(perm[static_cast<size_t>(p)]));
-      mn = mn.cwiseMin(Y.row(perm[static_cast<size_t>(p)]));
-    }
+    const Index n = Y.cols();
     Index axis = 0;
-    (mx - mn).maxCoeff(&axis);
+    double widest = -1.0;
+    for (Index j = 0; j < n; ++j) {
+      double mn = Y(perm[static_cast<size_t>(begin)], j), mx = mn;
+      for (Index p = begin + 1; p < end; ++p) {
+        const double y = Y(perm[static_cast<size_t>(p)], j);
+        mn = std::min(mn, y);
+        mx = std::max(mx, y);
+      }
+      if (mx - mn > widest) {
+        widest = mx - mn;
+        axis = j;
+      }
+    }
     const Index mid = begin + (end - begin) / 2;
     std::nth_element(perm.begin() + begin, perm.begin() + mid, perm.begin() + end,
                      [&Y, axis](Index a, Index b) { return Y(a, axis) < Y(b, axis); });
-    const Index l = build(Y, off, begin, mid, leaf);
-    const Index r = build(Y, off, mid, end, leaf);
+    const Index l = build(Y, begin, mid, leaf);
+    const Index r = build(Y, mid, end, leaf);
     nodes[static_cast<size_t>(v)].left = l;
     nodes[static_cast<size_t>(v)].right = r;
     return v;
@@ -332,33 +424,49 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   }
   const std::vector<std::uint64_t> word = hull_check::row_words(k);
 
-  // Check 1, first part: every ridge listed by exactly two facets. Equal ridges meet after
-  // sorting by hash.
+  // Check 1, first part: every ridge listed by exactly two facets, and by two different ones.
+  // Equal ridges meet in an open-addressing table keyed by the ridge's hash (equal hashes are
+  // confirmed by comparing the ridges).
   std::vector<std::pair<Index, Index>> adjacent;  // ridge entries (r, r') of the same ridge
   {
-    std::vector<Entry> entry(static_cast<size_t>(NR));
+    std::vector<std::uint64_t> hash(static_cast<size_t>(NR));
     for (Index r = 0; r < NR; ++r) {
       std::uint64_t h = 0;
       for (Index j = 0; j < nk; ++j) h += word[static_cast<size_t>(ridge_at(r)[j])];
-      entry[static_cast<size_t>(r)] = {h, r};
+      hash[static_cast<size_t>(r)] = h;
     }
-    std::sort(entry.begin(), entry.end());
-    auto same = [&](const Entry& a, const Entry& b) {
-      return std::equal(ridge_at(a.second), ridge_at(a.second) + nk, ridge_at(b.second));
-    };
-    std::string why;
-    const bool closed = hull_check::for_each_equal(entry, same, [&](const Entry* e, size_t count) {
-      const Index ra = e[0].second;
-      if (count != 2 || hull.ridge_owner[static_cast<size_t>(ra)] ==
-                            hull.ridge_owner[static_cast<size_t>(e[1].second)]) {
-        why = "a ridge of qhull's hull is listed by " + std::to_string(count) +
-              " facets (the boundary is not closed)";
-        return false;
+    size_t cap = 2;
+    while (cap < 2 * static_cast<size_t>(NR)) cap <<= 1;
+    std::vector<Index> slot(cap, -1), partner(static_cast<size_t>(NR), -1);
+    adjacent.reserve(static_cast<size_t>(NR / 2));
+    for (Index r = 0; r < NR; ++r) {
+      const std::uint64_t h = hash[static_cast<size_t>(r)];
+      size_t pos = static_cast<size_t>(h ^ (h >> 29)) & (cap - 1);
+      bool placed = false;
+      for (; slot[pos] >= 0; pos = (pos + 1) & (cap - 1)) {
+        const Index q = slot[pos];
+        if (hash[static_cast<size_t>(q)] != h ||
+            !std::equal(ridge_at(q), ridge_at(q) + nk, ridge_at(r)))
+          continue;
+        if (partner[static_cast<size_t>(q)] >= 0)
+          return fail(
+              "a ridge of qhull's hull is listed by 3 or more facets (the boundary is "
+              "not closed)");
+        if (hull.ridge_owner[static_cast<size_t>(q)] == hull.ridge_owner[static_cast<size_t>(r)])
+          return fail(
+              "a ridge of qhull's hull is listed twice by one facet (the boundary is "
+              "not closed)");
+        partner[static_cast<size_t>(q)] = r;
+        partner[static_cast<size_t>(r)] = q;
+        adjacent.emplace_back(q, r);
+        placed = true;
+        break;
       }
-      adjacent.emplace_back(ra, e[1].second);
-      return true;
-    });
-    if (!closed) return fail(why);
+      if (!placed) slot[pos] = r;
+    }
+    for (Index r = 0; r < NR; ++r)
+      if (partner[static_cast<size_t>(r)] < 0)
+        return fail("a ridge of qhull's hull is listed by 1 facet (the boundary is not closed)");
   }
 
   // Candidate vertex of each qhull facet, and the grouping of adjacent pieces.
@@ -378,22 +486,32 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   std::vector<Index> parent(static_cast<size_t>(F));
   std::iota(parent.begin(), parent.end(), Index{0});
   {
-    std::vector<std::pair<Index, Index>> facet_pairs;
-    for (const auto& [ra, rb] : adjacent) {
-      const Index fa = hull.ridge_owner[static_cast<size_t>(ra)];
-      const Index fb = hull.ridge_owner[static_cast<size_t>(rb)];
-      facet_pairs.emplace_back(std::min(fa, fb), std::max(fa, fb));
-    }
-    std::sort(facet_pairs.begin(), facet_pairs.end());
-    facet_pairs.erase(std::unique(facet_pairs.begin(), facet_pairs.end()), facet_pairs.end());
     auto rows_tight_at = [&](Index f, Index at) {
       const double ys = yscale_of(Y.row(at).transpose());
       for (Index i : facet_rows[static_cast<size_t>(f)])
         if (std::abs(slack(i, Y.row(at).transpose(), ys)) > group_tol) return false;
       return true;
     };
-    for (const auto& [fa, fb] : facet_pairs)
+    // One test per ridge: two facets that share several ridges (pieces of a merged facet)
+    // are tested again, which changes nothing.
+    // A quick rejection first: the row of f off the ridge (the one row an adjacent simplex
+    // does not share) is almost never tight at the other facet's vertex.
+    auto off_ridge_tight = [&](Index f, Index r, Index at) {
+      const auto& fr = facet_rows[static_cast<size_t>(f)];
+      for (Index i : fr)
+        if (!std::binary_search(ridge_at(r), ridge_at(r) + nk, i)) {
+          const double ys = yscale_of(Y.row(at).transpose());
+          return std::abs(slack(i, Y.row(at).transpose(), ys)) <= group_tol;
+        }
+      return true;
+    };
+    for (const auto& [ra, rb] : adjacent) {
+      const Index fa = hull.ridge_owner[static_cast<size_t>(ra)];
+      const Index fb = hull.ridge_owner[static_cast<size_t>(rb)];
+      if (!off_ridge_tight(fb, rb, fa) || !off_ridge_tight(fa, ra, fb)) continue;
+      if (find_root(parent, fa) == find_root(parent, fb)) continue;
       if (rows_tight_at(fb, fa) && rows_tight_at(fa, fb)) hull_check::unite(parent, fa, fb);
+    }
   }
 
   // Groups and their rows; each group's vertex is recomputed by least squares on its rows,
@@ -468,16 +586,18 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     // increasing order, so each tight list comes out sorted.
     const hull_check::BoxTree tree(out.objects, off, 16);
     std::vector<Index> stack;
+    std::vector<double> scratch;
     for (Index i = 0; i < k; ++i) {
       const double l = lo(i), h = hi(i);
-      const auto r = R.row(i);
+      const double* r = R.data() + i * n;
       Index bad = -1;
-      tree.candidates(r, l, stack, [&](Index p) {
-        const double v = tree.Yp.row(p).dot(r);
-        if (v + tree.offp(p) < l) return;  // not tight
-        const Index g = tree.perm[static_cast<size_t>(p)];
-        if (v - tree.offp(p) > h) bad = g;
+      auto test = [&](Index g, double v, double o) {
+        if (v + o < l) return;  // not tight
+        if (v - o > h) bad = g;
         out.tight[static_cast<size_t>(g)].push_back(i);
+      };
+      tree.candidates(r, l, stack, scratch, [&](Index p, double v) {
+        test(tree.perm[static_cast<size_t>(p)], v, tree.offp(p));
       });
       if (bad >= 0) {
         const Vector y = out.objects.row(bad).transpose();
