@@ -53,14 +53,50 @@ namespace corral::detail {
 /// What the rows and slacks mean (see the file comment).
 enum class PolarMode { vertices, facets };
 
+/// Sets of row indices stored one after another (compressed rows): set g is
+/// items[start[g] .. start[g + 1]), ascending. One allocation for all sets instead of one each.
+struct RowSets {
+  std::vector<Index> start{0};
+  std::vector<Index> items;
+
+  /// A read-only view of one set (a range of Index).
+  struct View {
+    const Index* first;
+    const Index* last;
+    const Index* begin() const { return first; }
+    const Index* end() const { return last; }
+    size_t size() const { return static_cast<size_t>(last - first); }
+    bool empty() const { return first == last; }
+    Index operator[](size_t j) const { return first[j]; }
+    Index back() const { return last[-1]; }
+  };
+  View operator[](size_t g) const { return {items.data() + start[g], items.data() + start[g + 1]}; }
+  Index count() const { return static_cast<Index>(start.size()) - 1; }
+  void clear() {
+    start.assign(1, 0);
+    items.clear();
+  }
+  /// Appends a set (any range of Index); the caller keeps it ascending.
+  template <class Range>
+  void push(const Range& r) {
+    items.insert(items.end(), r.begin(), r.end());
+    start.push_back(static_cast<Index>(items.size()));
+  }
+};
+
+inline bool operator==(const RowSets::View& a, const RowSets::View& b) {
+  return a.size() == b.size() && std::equal(a.begin(), a.end(), b.begin());
+}
+inline bool operator!=(const RowSets::View& a, const RowSets::View& b) { return !(a == b); }
+
 /// Vertices of {y : r_i·y <= s_i} recomputed from qhull's hull of the polar points, and the
 /// checks.
 struct PolarCheck {
   bool ok = false;
-  std::string failure;                    ///< the first check that failed, when !ok
-  Matrix objects;                         ///< one vertex y per row
-  std::vector<std::vector<Index>> tight;  ///< rows tight at each vertex, ascending
-  long groups_of_several = 0;             ///< vertices recomputed from several qhull facets
+  std::string failure;         ///< the first check that failed, when !ok
+  Matrix objects;              ///< one vertex y per row
+  RowSets tight;               ///< rows tight at each vertex, ascending
+  long groups_of_several = 0;  ///< vertices recomputed from several qhull facets
 };
 
 namespace hull_check {
@@ -80,7 +116,8 @@ inline void unite(std::vector<Index>& parent, Index a, Index b) {
 }
 
 // Numerical rank of the unit rows `rows` of U (relative pivot threshold tol).
-inline Index rank_of(const Matrix& U, const std::vector<Index>& rows, double tol) {
+template <class Rows>
+Index rank_of(const Matrix& U, const Rows& rows, double tol) {
   Eigen::MatrixXd M(static_cast<Index>(rows.size()), U.cols());
   for (size_t k = 0; k < rows.size(); ++k) M.row(static_cast<Index>(k)) = U.row(rows[k]);
   Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(M);
@@ -95,55 +132,63 @@ struct RowSolver {
   Eigen::VectorXd rhs;
   Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr;
   std::vector<Index> col;
-  std::vector<double> z;
+  std::vector<double> a, z;
 
-  // Gaussian elimination with complete pivoting on M (n x n, column-major) and rhs, in place:
+  // Gaussian elimination with complete pivoting on a copy of M (n x n) and rhs:
   // rank < n when a pivot is at most tol times the largest pivot so far (the rule of a
   // rank-revealing LU). For the small systems here it is several times faster than a general
   // LU object.
   bool solve_square(Index n, double tol, Eigen::Ref<Eigen::RowVectorXd> y) {
+    // Working copy, row-major, and the right-hand side in its last column.
+    const Index w = n + 1;
+    a.resize(static_cast<size_t>(n * w));
+    for (Index i = 0; i < n; ++i) {
+      for (Index j = 0; j < n; ++j) a[static_cast<size_t>(i * w + j)] = M(i, j);
+      a[static_cast<size_t>(i * w + n)] = rhs(i);
+    }
     col.resize(static_cast<size_t>(n));
     std::iota(col.begin(), col.end(), Index{0});
+    double* A = a.data();
     double largest = 0.0;
     for (Index k = 0; k < n; ++k) {
       Index pi = k, pj = k;
       double best = -1.0;
-      for (Index j = k; j < n; ++j)
-        for (Index i = k; i < n; ++i)
-          if (std::abs(M(i, j)) > best) {
-            best = std::abs(M(i, j));
+      for (Index i = k; i < n; ++i)
+        for (Index j = k; j < n; ++j)
+          if (std::abs(A[i * w + j]) > best) {
+            best = std::abs(A[i * w + j]);
             pi = i;
             pj = j;
           }
       largest = std::max(largest, best);
       if (!(best > tol * largest) || !(largest > 0.0)) return false;
-      if (pi != k) {
-        M.row(pi).swap(M.row(k));
-        std::swap(rhs(pi), rhs(k));
-      }
+      if (pi != k)
+        for (Index j = 0; j <= n; ++j) std::swap(A[pi * w + j], A[k * w + j]);
       if (pj != k) {
-        M.col(pj).swap(M.col(k));
+        for (Index i = 0; i < n; ++i) std::swap(A[i * w + pj], A[i * w + k]);
         std::swap(col[static_cast<size_t>(pj)], col[static_cast<size_t>(k)]);
       }
-      const double piv = M(k, k);
+      const double* rowk = A + k * w;
       for (Index i = k + 1; i < n; ++i) {
-        const double f = M(i, k) / piv;
+        double* rowi = A + i * w;
+        const double f = rowi[k] / rowk[k];
         if (f == 0.0) continue;
-        for (Index j = k + 1; j < n; ++j) M(i, j) -= f * M(k, j);
-        rhs(i) -= f * rhs(k);
+        for (Index j = k + 1; j <= n; ++j) rowi[j] -= f * rowk[j];
       }
     }
     z.resize(static_cast<size_t>(n));
     for (Index k = n - 1; k >= 0; --k) {
-      double v = rhs(k);
-      for (Index j = k + 1; j < n; ++j) v -= M(k, j) * z[static_cast<size_t>(j)];
-      z[static_cast<size_t>(k)] = v / M(k, k);
+      const double* rowk = A + k * w;
+      double v = rowk[n];
+      for (Index j = k + 1; j < n; ++j) v -= rowk[j] * z[static_cast<size_t>(j)];
+      z[static_cast<size_t>(k)] = v / rowk[k];
     }
     for (Index k = 0; k < n; ++k) y(col[static_cast<size_t>(k)]) = z[static_cast<size_t>(k)];
     return true;
   }
 
-  bool solve(const Matrix& U, const Vector& u, const std::vector<Index>& rows, double tol,
+  template <class Rows>
+  bool solve(const Matrix& U, const Vector& u, const Rows& rows, double tol,
              Eigen::Ref<Eigen::RowVectorXd> y) {
     const Index n = U.cols();
     M.resize(static_cast<Index>(rows.size()), n);
@@ -161,7 +206,8 @@ struct RowSolver {
   }
 };
 
-inline bool sorted_includes(const std::vector<Index>& big, const std::vector<Index>& small) {
+template <class Big, class Small>
+bool sorted_includes(const Big& big, const Small& small) {
   return std::includes(big.begin(), big.end(), small.begin(), small.end());
 }
 
@@ -289,9 +335,28 @@ struct BoxTree {
   template <class Visit>
   void candidates(const double* r, double threshold, std::vector<Index>& stack,
                   std::vector<double>& ra, Visit visit) const {
-    const Index n = Yp.cols();
+    // The dimension as a compile-time constant for the common small ones (loops unrolled).
+    switch (Yp.cols()) {
+      case 2: return walk<2>(r, threshold, stack, ra, visit);
+      case 3: return walk<3>(r, threshold, stack, ra, visit);
+      case 4: return walk<4>(r, threshold, stack, ra, visit);
+      case 5: return walk<5>(r, threshold, stack, ra, visit);
+      case 6: return walk<6>(r, threshold, stack, ra, visit);
+      case 7: return walk<7>(r, threshold, stack, ra, visit);
+      case 8: return walk<8>(r, threshold, stack, ra, visit);
+      default: return walk<0>(r, threshold, stack, ra, visit);
+    }
+  }
+
+ private:
+  // candidates() for dimension N (0: Yp.cols() at run time).
+  template <int N, class Visit>
+  void walk(const double* r, double threshold, std::vector<Index>& stack, std::vector<double>& ra,
+            Visit& visit) const {
+    const Index n = N > 0 ? N : Yp.cols();
     ra.resize(static_cast<size_t>(n));
     for (Index j = 0; j < n; ++j) ra[static_cast<size_t>(j)] = std::abs(r[j]);
+    const double* rabs = ra.data();
     stack.clear();
     if (!nodes.empty()) stack.push_back(0);
     while (!stack.empty()) {
@@ -301,7 +366,7 @@ struct BoxTree {
       const double* c = centre.data() + v * n;
       const double* h = spread.data() + v * n;
       double bound = nd.max_off;
-      for (Index j = 0; j < n; ++j) bound += c[j] * r[j] + h[j] * ra[static_cast<size_t>(j)];
+      for (Index j = 0; j < n; ++j) bound += c[j] * r[j] + h[j] * rabs[j];
       if (bound < threshold) continue;
       if (nd.left >= 0) {
         stack.push_back(nd.right);
@@ -317,7 +382,6 @@ struct BoxTree {
     }
   }
 
- private:
   // Splits perm[begin .. end) at the median of its widest coordinate, recursively; returns the
   // node's index (a parent comes before its children).
   Index build(const Matrix& Y, Index begin, Index end, Index leaf) {
@@ -396,18 +460,23 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   };
 
   // qhull's facets (sorted rows) and ridges (sorted rows).
-  std::vector<std::vector<Index>> facet_rows(static_cast<size_t>(F));
+  RowSets facet_rows;
+  facet_rows.items.reserve(hull.facet_points.size());
+  facet_rows.start.reserve(static_cast<size_t>(F + 1));
   for (Index f = 0; f < F; ++f) {
-    auto& fr = facet_rows[static_cast<size_t>(f)];
+    const size_t first = facet_rows.items.size();
     for (int p = hull.facet_start[static_cast<size_t>(f)];
          p < hull.facet_start[static_cast<size_t>(f + 1)]; ++p) {
       const int id = hull.facet_points[static_cast<size_t>(p)];
       if (id < 0 || id >= k) return fail("qhull returned an index out of range");
-      fr.push_back(id);
+      facet_rows.items.push_back(id);
     }
-    std::sort(fr.begin(), fr.end());
-    if (static_cast<Index>(fr.size()) < n || std::adjacent_find(fr.begin(), fr.end()) != fr.end())
+    const auto fb = facet_rows.items.begin() + static_cast<std::ptrdiff_t>(first);
+    std::sort(fb, facet_rows.items.end());
+    if (static_cast<Index>(facet_rows.items.size() - first) < n ||
+        std::adjacent_find(fb, facet_rows.items.end()) != facet_rows.items.end())
       return fail("a facet of qhull's hull has fewer than n distinct vertices");
+    facet_rows.start.push_back(static_cast<Index>(facet_rows.items.size()));
   }
   const Index nk = n - 1;
   std::vector<Index> ridge_ids(static_cast<size_t>(NR * nk));
@@ -519,7 +588,9 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   // the groups rebuilt, once.
   std::vector<Index> group_of(static_cast<size_t>(F));
   std::vector<Index> first_facet, count;
-  std::vector<std::vector<Index>> group_rows;
+  RowSets group_rows;
+  std::vector<Index> members, gather;                // facets by group; scratch
+  std::vector<std::pair<Index, Index>> tight_pairs;  // (vertex, row) as found
   Index G = 0;
   for (int pass = 0;; ++pass) {
     std::vector<Index> root_group(static_cast<size_t>(F), -1);
@@ -537,24 +608,41 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     }
     G = static_cast<Index>(first_facet.size());
     if (G < n + 1) return fail("fewer than n + 1 vertices (facets) after grouping");
-    group_rows.assign(static_cast<size_t>(G), {});
-    for (Index f = 0; f < F; ++f) {
-      auto& gr = group_rows[static_cast<size_t>(group_of[static_cast<size_t>(f)])];
-      gr.insert(gr.end(), facet_rows[static_cast<size_t>(f)].begin(),
-                facet_rows[static_cast<size_t>(f)].end());
+    // Facets by group (a counting sort), then each group's rows: its facet's rows, or the
+    // sorted union of its facets' rows.
+    std::vector<Index> member_start(static_cast<size_t>(G + 1), 0);
+    for (Index f = 0; f < F; ++f)
+      ++member_start[static_cast<size_t>(group_of[static_cast<size_t>(f)] + 1)];
+    for (Index g = 0; g < G; ++g)
+      member_start[static_cast<size_t>(g + 1)] += member_start[static_cast<size_t>(g)];
+    members.assign(static_cast<size_t>(F), 0);
+    {
+      std::vector<Index> fill(member_start.begin(), member_start.end() - 1);
+      for (Index f = 0; f < F; ++f)
+        members[static_cast<size_t>(
+            fill[static_cast<size_t>(group_of[static_cast<size_t>(f)])]++)] = f;
     }
+    group_rows.clear();
+    group_rows.items.reserve(facet_rows.items.size());
     out.objects.resize(G, n);
     out.groups_of_several = 0;
     for (Index g = 0; g < G; ++g) {
-      auto& gr = group_rows[static_cast<size_t>(g)];
-      std::sort(gr.begin(), gr.end());
-      gr.erase(std::unique(gr.begin(), gr.end()), gr.end());
       if (count[static_cast<size_t>(g)] == 1) {
+        group_rows.push(facet_rows[static_cast<size_t>(first_facet[static_cast<size_t>(g)])]);
         out.objects.row(g) = Y.row(first_facet[static_cast<size_t>(g)]);
         continue;
       }
+      gather.clear();
+      for (Index q = member_start[static_cast<size_t>(g)];
+           q < member_start[static_cast<size_t>(g + 1)]; ++q) {
+        const auto fr = facet_rows[static_cast<size_t>(members[static_cast<size_t>(q)])];
+        gather.insert(gather.end(), fr.begin(), fr.end());
+      }
+      std::sort(gather.begin(), gather.end());
+      gather.erase(std::unique(gather.begin(), gather.end()), gather.end());
+      group_rows.push(gather);
       ++out.groups_of_several;
-      if (!solver.solve(U, u, gr, tol, out.objects.row(g)))
+      if (!solver.solve(U, u, group_rows[static_cast<size_t>(g)], tol, out.objects.row(g)))
         return fail("the rows of a group of facets have rank < n");
     }
     if (!out.objects.allFinite()) return fail("a recomputed vertex is not finite");
@@ -562,8 +650,8 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     // Check 2: every row at every vertex; collect the tight rows.
     const double abs_tol =
         mode == PolarMode::facets ? tol : tol * out.objects.cwiseAbs().maxCoeff();
-    out.tight.assign(static_cast<size_t>(G), {});
-    for (auto& t : out.tight) t.reserve(static_cast<size_t>(n));
+    tight_pairs.clear();
+    tight_pairs.reserve(static_cast<size_t>(G * n));
     // The tests in terms of the products r_i·y, in one pass over them: row i is tight at
     // vertex g when r_i·y_g >= lo_i - off_g and violated when r_i·y_g > hi_i + off_g. For
     // vertices, slack (s_i - r_i·y) / |r_i| against abs_tol gives lo, hi = s_i -/+ abs_tol |r_i|
@@ -594,7 +682,7 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       auto test = [&](Index g, double v, double o) {
         if (v + o < l) return;  // not tight
         if (v - o > h) bad = g;
-        out.tight[static_cast<size_t>(g)].push_back(i);
+        tight_pairs.emplace_back(g, i);
       };
       tree.candidates(r, l, stack, scratch, [&](Index p, double v) {
         test(tree.perm[static_cast<size_t>(p)], v, tree.offp(p));
@@ -605,6 +693,18 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
                     " is outside " + (mode == PolarMode::facets ? "facet " : "at vertex ") +
                     std::to_string(bad) + " by " + std::to_string(-slack(i, y, yscale_of(y))));
       }
+    }
+    // The pairs come row after row: a stable counting sort by vertex gives each vertex's
+    // rows in ascending order.
+    out.tight.start.assign(static_cast<size_t>(G + 1), 0);
+    for (const auto& [g, i] : tight_pairs) ++out.tight.start[static_cast<size_t>(g + 1)];
+    for (Index g = 0; g < G; ++g)
+      out.tight.start[static_cast<size_t>(g + 1)] += out.tight.start[static_cast<size_t>(g)];
+    out.tight.items.resize(tight_pairs.size());
+    {
+      std::vector<Index> fill(out.tight.start.begin(), out.tight.start.end() - 1);
+      for (const auto& [g, i] : tight_pairs)
+        out.tight.items[static_cast<size_t>(fill[static_cast<size_t>(g)]++)] = i;
     }
     for (Index g = 0; g < G; ++g)
       if (!hull_check::sorted_includes(out.tight[static_cast<size_t>(g)],
