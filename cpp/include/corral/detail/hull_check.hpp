@@ -270,8 +270,9 @@ struct BoxTree {
   };
   std::vector<Node> nodes;
   std::vector<Index> perm;
-  Matrix Yp;    // the points in tree order
-  Vector offp;  // their offsets in tree order
+  Index depth = 0;  // the longest path from the root to a leaf, in edges
+  Matrix Yp;        // the points in tree order
+  Vector offp;      // their offsets in tree order
   // One row per node: the box's centre c, and its half-widths h widened by 1e-12 (|c| + h),
   // a margin for the rounding of the bound r·c + |r|·h against that of r·y.
   Matrix centre, spread;
@@ -292,13 +293,15 @@ struct BoxTree {
     // Boxes bottom-up: children come after their parent in `nodes`. lo / hi hold the box's
     // corners until they become its centre and widened half-widths.
     const Index N = static_cast<Index>(nodes.size());
-    Matrix lo(N, n), hi(N, n);
+    centre.resize(N, n);  // the lower corners first
+    spread.resize(N, n);  // the upper corners first
     for (Index v = N - 1; v >= 0; --v) {
       Node& nd = nodes[static_cast<size_t>(v)];
-      double* l = lo.data() + v * n;
-      double* h = hi.data() + v * n;
+      double* l = centre.data() + v * n;
+      double* h = spread.data() + v * n;
       if (nd.left < 0) {
-        for (Index j = 0; j < n; ++j) l[j] = h[j] = Yp(nd.begin, j);
+        const double* y0 = Yp.data() + nd.begin * n;
+        for (Index j = 0; j < n; ++j) l[j] = h[j] = y0[j];
         nd.max_off = offp(nd.begin);
         for (Index p = nd.begin + 1; p < nd.end; ++p) {
           const double* y = Yp.data() + p * n;
@@ -309,8 +312,8 @@ struct BoxTree {
           nd.max_off = std::max(nd.max_off, offp(p));
         }
       } else {
-        const double *la = lo.data() + nd.left * n, *lb = lo.data() + nd.right * n;
-        const double *ha = hi.data() + nd.left * n, *hb = hi.data() + nd.right * n;
+        const double *la = centre.data() + nd.left * n, *lb = centre.data() + nd.right * n;
+        const double *ha = spread.data() + nd.left * n, *hb = spread.data() + nd.right * n;
         for (Index j = 0; j < n; ++j) {
           l[j] = std::min(la[j], lb[j]);
           h[j] = std::max(ha[j], hb[j]);
@@ -319,14 +322,15 @@ struct BoxTree {
                               nodes[static_cast<size_t>(nd.right)].max_off);
       }
     }
-    centre.resize(N, n);
-    spread.resize(N, n);
-    for (Index v = 0; v < N; ++v)
+    for (Index v = 0; v < N; ++v) {
+      double* l = centre.data() + v * n;
+      double* h = spread.data() + v * n;
       for (Index j = 0; j < n; ++j) {
-        const double c = 0.5 * (hi(v, j) + lo(v, j)), w = 0.5 * (hi(v, j) - lo(v, j));
-        centre(v, j) = c;
-        spread(v, j) = w + 1e-12 * (std::abs(c) + w);
+        const double c = 0.5 * (h[j] + l[j]), w = 0.5 * (h[j] - l[j]);
+        l[j] = c;
+        h[j] = w + 1e-12 * (std::abs(c) + w);
       }
+    }
   }
 
   // Calls visit(p, r·y) for every point p (in tree order: the original index is perm[p]) where
@@ -357,11 +361,14 @@ struct BoxTree {
     ra.resize(static_cast<size_t>(n));
     for (Index j = 0; j < n; ++j) ra[static_cast<size_t>(j)] = std::abs(r[j]);
     const double* rabs = ra.data();
-    stack.clear();
-    if (!nodes.empty()) stack.push_back(0);
-    while (!stack.empty()) {
-      const Index v = stack.back();
-      stack.pop_back();
+    if (nodes.empty()) return;
+    // At most one pending sibling per level besides the current path: depth + 2 entries.
+    stack.resize(static_cast<size_t>(depth + 2));
+    Index* st = stack.data();
+    Index top = 0;
+    st[top++] = 0;
+    while (top > 0) {
+      const Index v = st[--top];
       const Node& nd = nodes[static_cast<size_t>(v)];
       const double* c = centre.data() + v * n;
       const double* h = spread.data() + v * n;
@@ -369,8 +376,8 @@ struct BoxTree {
       for (Index j = 0; j < n; ++j) bound += c[j] * r[j] + h[j] * rabs[j];
       if (bound < threshold) continue;
       if (nd.left >= 0) {
-        stack.push_back(nd.right);
-        stack.push_back(nd.left);
+        st[top++] = nd.right;
+        st[top++] = nd.left;
         continue;
       }
       for (Index p = nd.begin; p < nd.end; ++p) {
@@ -384,9 +391,10 @@ struct BoxTree {
 
   // Splits perm[begin .. end) at the median of its widest coordinate, recursively; returns the
   // node's index (a parent comes before its children).
-  Index build(const Matrix& Y, Index begin, Index end, Index leaf) {
+  Index build(const Matrix& Y, Index begin, Index end, Index leaf, Index level = 0) {
     const Index v = static_cast<Index>(nodes.size());
     nodes.push_back({begin, end});
+    depth = std::max(depth, level);
     if (end - begin <= leaf) return v;
     const Index n = Y.cols();
     Index axis = 0;
@@ -406,8 +414,8 @@ struct BoxTree {
     const Index mid = begin + (end - begin) / 2;
     std::nth_element(perm.begin() + begin, perm.begin() + mid, perm.begin() + end,
                      [&Y, axis](Index a, Index b) { return Y(a, axis) < Y(b, axis); });
-    const Index l = build(Y, begin, mid, leaf);
-    const Index r = build(Y, mid, end, leaf);
+    const Index l = build(Y, begin, mid, leaf, level + 1);
+    const Index r = build(Y, mid, end, leaf, level + 1);
     nodes[static_cast<size_t>(v)].left = l;
     nodes[static_cast<size_t>(v)].right = r;
     return v;
