@@ -421,6 +421,44 @@ TEST_CASE("enumeration: the validation rejects broken hulls") {
   CHECK_FALSE(check(thrice).ok);
 }
 
+TEST_CASE("enumeration: the validation rejects broken hulls with many points (box tree path)") {
+  // 120 random unit vectors in R^4 (so more than 64 points: the row-vertex tests go through
+  // the box tree): qhull's hull validates; then (a) one point is pushed outward after qhull
+  // ran, so it lies outside the facets near it, and (b) one vertex of one facet is replaced
+  // by a point that is not on that facet. Both must fail validation.
+  std::mt19937 gen(11);
+  const Index n = 4, k = 120;
+  const Matrix V = random_unit_rows(gen, k, n);
+  const corral::detail::QhullRun run = corral::detail::qhull_hull(V);
+  REQUIRE(run.ok);
+  auto check = [](const Matrix& W, const corral::detail::QhullRun& h) {
+    return corral::detail::polar_vertices(W, Vector::Ones(W.rows()), h,
+                                          corral::detail::PolarMode::facets, 1e-9);
+  };
+  const corral::detail::PolarCheck ok = check(V, run);
+  REQUIRE(ok.ok);
+  CHECK(ok.objects.rows() == run.num_facets());  // random points: a simplicial hull
+  // (a) Point 7 pushed outward by 1 %: it is now beyond the facets around it.
+  Matrix out = V;
+  out.row(7) *= 1.01;
+  const corral::detail::PolarCheck a = check(out, run);
+  CHECK_FALSE(a.ok);
+  CHECK(a.failure.find("outside") != std::string::npos);
+  // (b) The first vertex of facet 0 replaced by a point on none of facet 0's neighbours'
+  // planes: the facet's points no longer lie on one hyperplane with the rest of the hull
+  // inside.
+  corral::detail::QhullRun moved = run;
+  int other = 0;
+  for (; other < k; ++other) {
+    bool on = false;
+    for (int p = run.facet_start[0]; p < run.facet_start[1]; ++p)
+      on = on || run.facet_points[static_cast<size_t>(p)] == other;
+    if (!on) break;
+  }
+  moved.facet_points[0] = other;
+  CHECK_FALSE(check(V, moved).ok);
+}
+
 TEST_CASE("enumeration: unbounded sets raise on every path") {
   struct Set {
     const char* what;

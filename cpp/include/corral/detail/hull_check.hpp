@@ -680,10 +680,36 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     // Only the vertices that a box of the tree does not rule out are evaluated (the rest
     // have r_i·y + off < lo_i <= hi_i, so they are neither tight nor violated); rows go in
     // increasing order, so each tight list comes out sorted.
-    const hull_check::BoxTree tree(out.objects, off, 16);
+    // Few rows (64 or fewer): every pair, by blocked matrix products; the tree's construction
+    // would cost more than it saves (measured by instruction counts at n = 3..6).
+    const bool direct = k <= 64;
+    if (direct) {
+      const Index block = 512;
+      Matrix P;  // block x k: the products of a block of vertices with every row
+      for (Index g0 = 0; g0 < G; g0 += block) {
+        const Index B = std::min(block, G - g0);
+        P.noalias() = out.objects.middleRows(g0, B) * R.transpose();
+        for (Index c = 0; c < B; ++c) {
+          const double* pr = P.data() + c * k;
+          const double o = off(g0 + c);
+          for (Index i = 0; i < k; ++i) {
+            if (pr[i] + o < lo(i)) continue;  // not tight
+            if (pr[i] - o > hi(i)) {
+              const Vector y = out.objects.row(g0 + c).transpose();
+              return fail((mode == PolarMode::facets ? "point " : "row ") + std::to_string(i) +
+                          " is outside " + (mode == PolarMode::facets ? "facet " : "at vertex ") +
+                          std::to_string(g0 + c) + " by " +
+                          std::to_string(-slack(i, y, yscale_of(y))));
+            }
+            tight_pairs.emplace_back(g0 + c, i);
+          }
+        }
+      }
+    }
+    const hull_check::BoxTree tree(direct ? Matrix(0, n) : out.objects, off, 8);
     std::vector<Index> stack;
     std::vector<double> scratch;
-    for (Index i = 0; i < k; ++i) {
+    for (Index i = 0; i < k && !direct; ++i) {
       const double l = lo(i), h = hi(i);
       const double* r = R.data() + i * n;
       Index bad = -1;
