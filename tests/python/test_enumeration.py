@@ -24,6 +24,8 @@ import cdd.gmp
 import corral
 import numpy as np
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 from scipy.optimize import linprog
 from scipy.spatial import ConvexHull, HalfspaceIntersection, cKDTree
 
@@ -429,3 +431,41 @@ def test_bad_and_tiny_input():
     E = corral.Polytope([[1.0, 0], [-1.0, 0]], [-1.0, -2.0])  # x <= -1 and x >= 2
     V, info = E.vertices(return_info=True)
     assert V.shape == (0, 2) and info.method == "cdd"
+
+
+# --------------------------------------------------------------------------------------------
+# Property-based round trips (hypothesis): the two enumerations invert each other; the facets
+# agree with scipy's qhull (reference: scipy.spatial.ConvexHull) and their number with exact
+# cddlib (reference: corral's cdd-exact path, double description in GMP rationals).
+
+
+@settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(
+    n=st.integers(2, 5),
+    extra=st.integers(0, 25),
+    seed=st.integers(0, 2**32 - 1),
+    lattice=st.booleans(),
+)
+def test_round_trip_property(n, extra, seed, lattice):
+    rng = np.random.default_rng(seed)
+    k = n + 1 + extra
+    # Points in general position, or on a small integer lattice (many points on each facet,
+    # repeats, vertices in more than n facets).
+    X = rng.integers(-2, 3, size=(k, n)).astype(float) if lattice else rng.normal(size=(k, n))
+    if np.linalg.matrix_rank(X[1:] - X[0]) < n:
+        return  # a flat cloud: not the full-dimensional case this property is about
+    P, info = corral.Polytope.from_vertices(X, return_info=True)
+    assert info.method in ("qhull", "cdd-exact")
+    # Every point satisfies every facet (definition of the hull), relative to the data's size.
+    assert np.all(X @ P.A.T <= P.b + 1e-9 * (1 + np.abs(X).max()))
+    # The facets are scipy's (unique facet hyperplanes of its triangulated hull).
+    assert_same_rows(facet_rows(P), scipy_facets(X), atol=1e-7)
+    # Back to vertices: each one of the points, and the facet count matches exact cddlib.
+    V, vinfo = P.vertices(return_info=True)
+    assert vinfo.method in ("qhull", "cdd-exact")
+    d = np.abs(V[:, None, :] - X[None, :, :]).max(axis=2).min(axis=1)
+    assert d.max() <= 1e-7  # every vertex is one of the points
+    exact = corral.Polytope.from_vertices(X, exact=True)
+    assert exact.num_rows == P.num_rows
+    # The hull of the vertices is the same set (one LP per row each way).
+    assert corral.Polytope.from_vertices(V).same_set(P)
