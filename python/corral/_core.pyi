@@ -56,6 +56,25 @@ def _set_default_tol(tol: float) -> None: ...
 
 class CancelledError(CorralError): ...
 
+class LqrResult:
+    @property
+    def K(self) -> npt.NDArray[np.float64]: ...
+    @property
+    def P(self) -> npt.NDArray[np.float64]: ...
+    spectral_radius: float
+    residual: float
+    steps: int
+
+def lqr(
+    A: npt.ArrayLike,
+    B: npt.ArrayLike,
+    Q: npt.ArrayLike,
+    R: npt.ArrayLike,
+    *,
+    tol: float | None = None,
+    max_steps: int = 100,
+) -> LqrResult: ...
+
 class Polytope:
     def __init__(self, A: npt.ArrayLike, b: npt.ArrayLike) -> None: ...
     @staticmethod

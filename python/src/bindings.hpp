@@ -18,6 +18,7 @@ namespace py = pybind11;
 void register_errors(py::module_& m);
 void register_lp(py::module_& m);
 void register_polytope(py::module_& m);
+void register_control(py::module_& m);
 
 /// Converts to a float64 numpy array of the given number of dimensions, or throws
 /// InvalidInputError naming the argument.

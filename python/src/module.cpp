@@ -63,4 +63,5 @@ PYBIND11_MODULE(_core, m) {
   corral::python::register_errors(m);
   corral::python::register_lp(m);
   corral::python::register_polytope(m);
+  corral::python::register_control(m);
 }

@@ -7,6 +7,7 @@
 #include <corral/errors.hpp>
 #include <corral/lp/check.hpp>
 #include <corral/lp/solver.hpp>
+#include <corral/lqr.hpp>
 #include <corral/options.hpp>
 #include <corral/polytope.hpp>
 #include <corral/polytope_queries.hpp>
