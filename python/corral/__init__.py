@@ -7,8 +7,10 @@ the conveniences that belong in Python.
 from __future__ import annotations
 
 from ._core import (
+    AdmissibleResult,
     CancelledError,
     CorralError,
+    FiniteDetermination,
     InvalidInputError,
     LPResult,
     LqrResult,
@@ -21,19 +23,23 @@ from ._core import (
     _set_default_tol,
     backend_capabilities,
     backends,
+    closed_loop_admissible_set,
     default_backend,
     default_tol,
     lp_verify_tolerance,
     lqr,
+    max_admissible_set,
     maximize,
     set_lp_verify_tolerance,
 )
 from ._polytope import ChebyshevBall, Info
 
 __all__ = [
+    "AdmissibleResult",
     "CancelledError",
     "ChebyshevBall",
     "CorralError",
+    "FiniteDetermination",
     "Info",
     "InvalidInputError",
     "LPResult",
@@ -45,10 +51,12 @@ __all__ = [
     "__version__",
     "backend_capabilities",
     "backends",
+    "closed_loop_admissible_set",
     "default_backend",
     "default_tol",
     "lp_verify_tolerance",
     "lqr",
+    "max_admissible_set",
     "maximize",
     "set_defaults",
     "set_lp_verify_tolerance",

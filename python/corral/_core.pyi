@@ -56,6 +56,45 @@ def _set_default_tol(tol: float) -> None: ...
 
 class CancelledError(CorralError): ...
 
+class FiniteDetermination:
+    origin_margin: float
+    origin_interior: bool
+    bounded_up_to_subspace: bool
+    observable_dim: int
+    observable_spectral_radius: float
+
+class AdmissibleResult:
+    set: Polytope
+    steps: int
+    converged: bool
+    lp_solves: int
+    fallbacks: int
+    seconds: float
+    conditions: FiniteDetermination
+
+def max_admissible_set(
+    A: npt.ArrayLike,
+    X: Polytope,
+    *,
+    max_steps: int = 1000,
+    backend: str | None = None,
+    tol: float | None = None,
+    progress: Callable[[dict[str, Any]], bool | None] | None = None,
+) -> AdmissibleResult: ...
+def closed_loop_admissible_set(
+    A: npt.ArrayLike,
+    B: npt.ArrayLike,
+    K: npt.ArrayLike,
+    X: Polytope | None = None,
+    U: Polytope | None = None,
+    *,
+    mixed: Polytope | None = None,
+    max_steps: int = 1000,
+    backend: str | None = None,
+    tol: float | None = None,
+    progress: Callable[[dict[str, Any]], bool | None] | None = None,
+) -> AdmissibleResult: ...
+
 class LqrResult:
     @property
     def K(self) -> npt.NDArray[np.float64]: ...

@@ -9,6 +9,8 @@
 
 #include <corral/corral.hpp>
 
+#include <chrono>
+#include <memory>
 #include <string>
 
 namespace corral::python {
@@ -88,6 +90,60 @@ inline double tol_arg(py::handle obj) {
 inline py::object vector_or_none(const Vector& v) {
   if (v.size() == 0) return py::none();
   return py::cast(v);
+}
+
+// Builds Options from Python keywords. The progress wrapper is called without the GIL (the
+// algorithms run with it released); it takes the GIL, checks signals at most every 50 ms, and
+// calls the user's callback. A Python exception is kept and re-raised after the C++ call.
+struct CallOptions {
+  Options options;
+  std::shared_ptr<py::object> callback;
+  std::shared_ptr<std::exception_ptr> error = std::make_shared<std::exception_ptr>();
+};
+
+inline CallOptions make_options(py::object backend, py::object tol, py::object progress) {
+  CallOptions c;
+  c.options.backend = backend_arg(backend);
+  c.options.tol = tol_arg(tol);
+  if (!progress.is_none() && !PyCallable_Check(progress.ptr()))
+    corral::detail::invalid("progress", "must be callable or None");
+  c.callback = std::make_shared<py::object>(progress);
+  auto cb = c.callback;
+  auto err = c.error;
+  auto last = std::make_shared<std::chrono::steady_clock::time_point>();
+  c.options.progress = [cb, err, last](const Progress& p) -> bool {
+    const auto now = std::chrono::steady_clock::now();
+    if (cb->is_none() && now - *last < std::chrono::milliseconds(50)) return true;
+    *last = now;
+    py::gil_scoped_acquire gil;
+    try {
+      if (PyErr_CheckSignals() != 0) throw py::error_already_set();
+      if (cb->is_none()) return true;
+      py::dict d;
+      d["stage"] = p.stage;
+      d["done"] = p.done;
+      d["total"] = p.total;
+      d["lp_solves"] = p.lp_solves;
+      py::object r = (*cb)(d);
+      return r.is_none() || r.cast<bool>();
+    } catch (py::error_already_set&) {
+      *err = std::current_exception();
+      return false;
+    }
+  };
+  return c;
+}
+
+// Runs f with the GIL released; re-raises a Python exception caught in the progress callback.
+template <class F>
+auto run_released(const CallOptions& c, F&& f) {
+  try {
+    py::gil_scoped_release release;
+    return f();
+  } catch (const CancelledError&) {
+    if (*c.error) std::rethrow_exception(*c.error);
+    throw;
+  }
 }
 
 }  // namespace corral::python

@@ -1,4 +1,5 @@
-// Bindings of the control-design helpers: lqr.
+// Bindings of the control routines: lqr, maximal admissible sets. Thin: conversion, GIL
+// release, progress; nothing algorithmic.
 
 #include "bindings.hpp"
 
@@ -18,6 +19,87 @@ void register_control(py::module_& m) {
         return "LqrResult(K: " + std::to_string(r.K.rows()) + "x" + std::to_string(r.K.cols()) +
                ", spectral radius " + std::to_string(r.spectral_radius) + ")";
       });
+  py::class_<FiniteDetermination>(m, "FiniteDetermination",
+                                  "The conditions of finite determination as found.")
+      .def_readonly("origin_margin", &FiniteDetermination::origin_margin,
+                    "min f_i over the unit rows of X (> 0: the origin is inside X).")
+      .def_readonly("origin_interior", &FiniteDetermination::origin_interior)
+      .def_readonly("bounded_up_to_subspace", &FiniteDetermination::bounded_up_to_subspace,
+                    "Every d with G d <= 0 has G d = 0.")
+      .def_readonly("observable_dim", &FiniteDetermination::observable_dim)
+      .def_readonly("observable_spectral_radius", &FiniteDetermination::observable_spectral_radius)
+      .def("__repr__", [](const FiniteDetermination& c) {
+        return "FiniteDetermination(origin_margin=" + std::to_string(c.origin_margin) +
+               ", bounded_up_to_subspace=" + (c.bounded_up_to_subspace ? "True" : "False") +
+               ", observable_dim=" + std::to_string(c.observable_dim) +
+               ", observable_spectral_radius=" + std::to_string(c.observable_spectral_radius) + ")";
+      });
+  py::class_<AdmissibleResult>(m, "AdmissibleResult", "Result of max_admissible_set().")
+      .def_readonly("set", &AdmissibleResult::set, "The set (irredundant when converged).")
+      .def_readonly("steps", &AdmissibleResult::steps,
+                    "Determinedness index t* (steps done when not converged).")
+      .def_readonly("converged", &AdmissibleResult::converged,
+                    "False: max_steps was reached and `set` is an outer bound.")
+      .def_readonly("lp_solves", &AdmissibleResult::lp_solves)
+      .def_readonly("fallbacks", &AdmissibleResult::fallbacks)
+      .def_readonly("seconds", &AdmissibleResult::seconds)
+      .def_readonly("conditions", &AdmissibleResult::conditions)
+      .def("__repr__", [](const AdmissibleResult& r) {
+        return "AdmissibleResult(" + std::to_string(r.set.num_rows()) + " rows, steps " +
+               std::to_string(r.steps) + (r.converged ? ", converged" : ", NOT converged") + ", " +
+               std::to_string(r.lp_solves) + " LPs)";
+      });
+  auto admissible_options = [](py::object backend, py::object tol, py::object progress,
+                               int max_steps) {
+    CallOptions c = make_options(backend, tol, progress);
+    AdmissibleOptions o;
+    static_cast<Options&>(o) = c.options;
+    o.max_steps = max_steps;
+    return std::make_pair(c, o);
+  };
+  m.def(
+      "max_admissible_set",
+      [admissible_options](py::object A, py::object X, int max_steps, py::object backend,
+                           py::object tol, py::object progress) {
+        const Matrix Am = to_matrix(A, "A");
+        if (!py::isinstance<Polytope>(X)) corral::detail::invalid("X", "must be a Polytope");
+        const Polytope Xp = X.cast<Polytope>();
+        const auto co = admissible_options(backend, tol, progress, max_steps);
+        const AdmissibleOptions& o = co.second;
+        return run_released(co.first, [&] { return max_admissible_set(Am, Xp, o); });
+      },
+      py::arg("A"), py::arg("X"), py::kw_only(), py::arg("max_steps") = 1000,
+      py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+      py::arg("progress") = py::none(),
+      "Maximal admissible set of x+ = A x in X (Gilbert & Tan 1991): every x whose trajectory\n"
+      "stays in X forever. Returns an AdmissibleResult (.set, .steps = t*, .converged,\n"
+      ".conditions, .lp_solves, .seconds). Raises NotFinitelyDeterminedError when the part of\n"
+      "A observable from X's rows is not strictly stable.");
+  m.def(
+      "closed_loop_admissible_set",
+      [admissible_options](py::object A, py::object B, py::object K, py::object X, py::object U,
+                           py::object mixed, int max_steps, py::object backend, py::object tol,
+                           py::object progress) {
+        const Matrix Am = to_matrix(A, "A"), Bm = to_matrix(B, "B"), Km = to_matrix(K, "K");
+        const Index n = Am.rows(), mu = Bm.cols();
+        auto poly = [](py::object P, Index dim, const char* name) {
+          if (P.is_none()) return Polytope(dim);
+          if (!py::isinstance<Polytope>(P)) corral::detail::invalid(name, "must be a Polytope");
+          return P.cast<Polytope>();
+        };
+        const Polytope Xp = poly(X, n, "X"), Up = poly(U, mu, "U"),
+                       Mp = poly(mixed, n + mu, "mixed");
+        const auto co = admissible_options(backend, tol, progress, max_steps);
+        const AdmissibleOptions& o = co.second;
+        return run_released(co.first,
+                            [&] { return closed_loop_admissible_set(Am, Bm, Km, Xp, Up, Mp, o); });
+      },
+      py::arg("A"), py::arg("B"), py::arg("K"), py::arg("X") = py::none(),
+      py::arg("U") = py::none(), py::kw_only(), py::arg("mixed") = py::none(),
+      py::arg("max_steps") = 1000, py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+      py::arg("progress") = py::none(),
+      "Maximal admissible set of the closed loop x+ = (A - B K) x, u = -K x, under state\n"
+      "limits X, input limits U and mixed limits (a Polytope in (x, u)); None: no limit.");
   m.def(
       "lqr",
       [](py::object A, py::object B, py::object Q, py::object R, py::object tol, int max_steps) {

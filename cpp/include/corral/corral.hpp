@@ -2,6 +2,7 @@
 /// \file corral.hpp
 /// Umbrella header: includes every public header of corral.
 
+#include <corral/admissible.hpp>
 #include <corral/defaults.hpp>
 #include <corral/enumeration.hpp>
 #include <corral/errors.hpp>

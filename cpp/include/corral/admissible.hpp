@@ -1,0 +1,297 @@
+#pragma once
+/// \file admissible.hpp
+/// Maximal admissible set of an autonomous linear system x+ = A x under X = {x : G x <= f}:
+/// O_∞ = {x : A^k x ∈ X for every k >= 0}, computed as O_t* = ∩_{k=0..t*} {x : G A^k x <= f}
+/// (Gilbert & Tan 1991, "Linear systems with state and control constraints: the theory and
+/// application of maximal output admissible sets", IEEE TAC 36(9)).
+///
+/// Conditions for finite determination, each checked and reported (FiniteDetermination):
+/// - the part of A observable from G is strictly stable. The unobservable subspace N (the
+///   kernel of [G; G A; ...; G A^{n-1}]) does not affect any constraint: the computation runs
+///   in coordinates z = Vᵀ x on N's orthogonal complement (V orthonormal), with z+ = Vᵀ A V z,
+///   and the result is lifted back, unbounded along N. A spectral radius >= 1 there raises
+///   NotFinitelyDeterminedError with the number;
+/// - 0 in the interior of X (reported; 0 on the boundary or outside X does not stop the
+///   iteration: with 0 outside X and stable dynamics the set comes out empty);
+/// - X bounded up to a subspace: every direction d with G d <= 0 has G d = 0 (reported; when
+///   it fails the iteration runs and may not converge within max_steps).
+///
+/// The iteration keeps a frontier of rows G_i A^k that were not redundant; each step maps them
+/// by A and tests every new row against the current set with one LP (early stop at its
+/// right-hand side), adding it only when it cuts. A row found redundant never needs to be
+/// propagated again: if it holds on O_k, its image holds on O_{k+1}. The first step that adds
+/// nothing proves O_{t+1} = O_t, so t* = t. A final redundancy pass leaves the irredundant set.
+
+#include <corral/errors.hpp>
+#include <corral/lp/solver.hpp>
+#include <corral/options.hpp>
+#include <corral/polytope.hpp>
+#include <corral/redundancy.hpp>
+
+#include <Eigen/Eigenvalues>
+#include <Eigen/QR>
+
+#include <chrono>
+#include <cmath>
+#include <limits>
+#include <string>
+
+namespace corral {
+
+/// The conditions of finite determination as found (see the file comment).
+struct FiniteDetermination {
+  double origin_margin = 0.0;               ///< min_i f_i over the unit rows of X (> 0: 0 inside X)
+  bool origin_interior = false;             ///< origin_margin > tol * scale
+  bool bounded_up_to_subspace = false;      ///< {d : G d <= 0} = {d : G d = 0}
+  Index observable_dim = 0;                 ///< dimension of the part of the state seen by G
+  double observable_spectral_radius = 0.0;  ///< spectral radius of A on that part
+};
+
+/// Options of max_admissible_set(): the common ones plus the step limit.
+struct AdmissibleOptions : Options {
+  int max_steps = 1000;  ///< steps of the iteration before giving up (converged = false)
+};
+
+/// Result of max_admissible_set().
+struct AdmissibleResult {
+  Polytope set;            ///< the maximal admissible set, irredundant (or the last iterate)
+  int steps = 0;           ///< determinedness index t* (or the steps done when not converged)
+  bool converged = false;  ///< false: max_steps reached; `set` is then an outer bound
+  long lp_solves = 0;      ///< LPs solved (conditions, iteration, final redundancy pass)
+  long fallbacks = 0;      ///< LP answers re-solved by another backend
+  double seconds = 0.0;    ///< wall-clock time
+  FiniteDetermination conditions;
+};
+
+namespace detail {
+
+/// Orthonormal basis (columns) of the row space of [G; G A; ...; G A^{n-1}].
+inline Eigen::MatrixXd observable_basis(const Matrix& A, const Matrix& G, double tol) {
+  const Index n = A.cols(), m = G.rows();
+  Eigen::MatrixXd O(m * n, n);
+  Eigen::MatrixXd row_block = G;
+  for (Index k = 0; k < n; ++k) {
+    O.middleRows(k * m, m) = row_block;
+    row_block = row_block * A;
+    const double s = row_block.cwiseAbs().maxCoeff();
+    if (s > 0.0) row_block /= s;  // scaling each block does not change the row space
+  }
+  Eigen::ColPivHouseholderQR<Eigen::MatrixXd> qr(O.transpose());
+  qr.setThreshold(tol);
+  const Index r = qr.rank();
+  const Eigen::MatrixXd Q = qr.householderQ();
+  return Q.leftCols(r);
+}
+
+}  // namespace detail
+
+/// Maximal admissible set of x+ = A x in X (see the file comment). A: n x n, n = X.dim().
+/// Throws InvalidInputError naming the argument for bad shapes or NaN/inf, and
+/// NotFinitelyDeterminedError when the observable part of A is not strictly stable.
+inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
+                                           const AdmissibleOptions& opt = {}) {
+  const auto t0 = std::chrono::steady_clock::now();
+  const Index n = X.dim();
+  if (A.rows() != n || A.cols() != n)
+    detail::invalid("A", "must be " + std::to_string(n) + " x " + std::to_string(n) +
+                             " (the dimension of X), got " + std::to_string(A.rows()) + " x " +
+                             std::to_string(A.cols()));
+  if (!A.allFinite()) detail::invalid("A", "contains NaN or inf");
+  if (opt.max_steps < 1) detail::invalid("max_steps", "must be at least 1");
+  const double tol = opt.tolerance();
+  AdmissibleResult out;
+  auto finish = [&](Polytope P, int steps, bool converged) {
+    out.set = std::move(P);
+    out.steps = steps;
+    out.converged = converged;
+    out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    return out;
+  };
+  if (X.is_trivially_empty()) return finish(Polytope::empty(n), 0, true);
+  if (X.num_rows() == 0) {  // no constraint: the whole space is admissible
+    out.conditions.bounded_up_to_subspace = true;
+    return finish(X, 0, true);
+  }
+  Info red_info;
+  Options ropt = opt;
+  const Polytope Xr = X.irredundant(ropt, false, &red_info);
+  out.lp_solves += red_info.lp_solves;
+  out.fallbacks += red_info.fallbacks;
+  if (Xr.is_trivially_empty() || Xr.num_rows() == 0) return finish(Xr, 0, true);
+  const Matrix& G = Xr.A();
+  const Vector& f = Xr.b();
+  const double scale = std::max(1.0, f.cwiseAbs().maxCoeff());
+  const double abs_tol = tol * scale;
+
+  // Conditions.
+  FiniteDetermination& cond = out.conditions;
+  cond.origin_margin = f.minCoeff();
+  cond.origin_interior = cond.origin_margin > abs_tol;
+  Eigen::MatrixXd V = detail::observable_basis(A, G, tol);
+  const Index r = V.cols();
+  if (r == n) V.setIdentity(n, n);  // all of the state is seen: keep the caller's coordinates
+  cond.observable_dim = r;
+  if (r == 0) {  // G sees nothing: every x with G x <= f is admissible forever iff 0·x <= f
+    cond.bounded_up_to_subspace = true;
+    return finish(Xr, 0, true);
+  }
+  const Eigen::MatrixXd Az = V.transpose() * A * V;
+  cond.observable_spectral_radius = Az.eigenvalues().cwiseAbs().maxCoeff();
+  if (!(cond.observable_spectral_radius < 1.0))
+    throw NotFinitelyDeterminedError(
+        "A: the part of A observable from the rows of X has spectral radius " +
+        std::to_string(cond.observable_spectral_radius) +
+        " >= 1; the maximal admissible set is not finitely determined");
+  const Matrix Gz = G * V;  // rows of X in the coordinates z = Vᵀ x
+  {
+    // Recession = lineality: no d with G d <= 0 has g_i·d < 0, i.e. for each row,
+    // max -g_i·d over {G d <= 0, -1 <= d <= 1} is 0.
+    Matrix C(Gz.rows() + 2 * r, r);
+    Vector c_rhs = Vector::Zero(Gz.rows() + 2 * r);
+    C.topRows(Gz.rows()) = Gz;
+    C.middleRows(Gz.rows(), r) = Matrix::Identity(r, r);
+    C.bottomRows(r) = -Matrix::Identity(r, r);
+    c_rhs.tail(2 * r).setOnes();
+    auto lp = lp::make_solver(C, c_rhs, Vector::Zero(r), opt.backend);
+    cond.bounded_up_to_subspace = true;
+    for (Index i = 0; i < Gz.rows() && cond.bounded_up_to_subspace; ++i) {
+      const double norm = Gz.row(i).norm();
+      if (!(norm > tol)) continue;
+      lp->set_objective(-Gz.row(i).transpose() / norm);
+      lp::SolveOptions so;
+      so.threshold = tol;
+      const lp::Result res = lp->solve(so);
+      ++out.lp_solves;
+      out.fallbacks += res.fallbacks;
+      if (res.status == lp::Status::numerical)
+        throw SolverError("max_admissible_set: LP failure in the boundedness check");
+      if (res.exceeds(tol)) cond.bounded_up_to_subspace = false;
+    }
+  }
+
+  // The iteration in z.
+  auto lp = lp::make_solver(Gz, f, Vector::Zero(r), opt.backend);
+  Matrix frontier = Gz;  // rows G_i A^k (in z) still to propagate
+  Vector frontier_rhs = f;
+  Matrix kept = Gz;  // every row of the current set
+  Vector kept_rhs = f;
+  int steps_done = 0;
+  bool converged = false;
+  for (int k = 1; k <= opt.max_steps; ++k) {
+    steps_done = k;
+    if (opt.progress) {
+      Progress p;
+      p.stage = "admissible set";
+      p.done = k;
+      p.total = opt.max_steps;
+      p.lp_solves = out.lp_solves;
+      if (!opt.progress(p)) throw CancelledError();
+    }
+    const Matrix cand = frontier * Az;
+    Matrix next(0, r);
+    Vector next_rhs(0);
+    for (Index i = 0; i < cand.rows(); ++i) {
+      const double norm = cand.row(i).norm();
+      const double rhs = frontier_rhs(i);
+      if (!(norm > tol * 1e-3)) {  // 0·z <= rhs: holds when rhs >= 0, else nothing does
+        if (rhs < -abs_tol) return finish(Polytope::empty(n), k, true);
+        continue;
+      }
+      if (opt.progress) {  // between LP solves (cheap: the Python wrapper rate-limits)
+        Progress p;
+        p.stage = "admissible set";
+        p.done = k;
+        p.total = opt.max_steps;
+        p.lp_solves = out.lp_solves;
+        if (!opt.progress(p)) throw CancelledError();
+      }
+      const Vector row = cand.row(i).transpose() / norm;
+      const double b = rhs / norm;
+      lp->set_objective(row);
+      lp::SolveOptions so;
+      so.threshold = b + abs_tol;
+      const lp::Result res = lp->solve(so);
+      ++out.lp_solves;
+      out.fallbacks += res.fallbacks;
+      if (res.status == lp::Status::infeasible) return finish(Polytope::empty(n), k, true);
+      if (res.status == lp::Status::numerical)
+        throw SolverError("max_admissible_set: LP failure at step " + std::to_string(k));
+      if (!res.exceeds(b + abs_tol)) continue;  // redundant: never propagated again
+      lp->add_rows(row.transpose(), Vector::Constant(1, b));
+      next.conservativeResize(next.rows() + 1, r);
+      next.row(next.rows() - 1) = row.transpose();
+      next_rhs.conservativeResize(next_rhs.size() + 1);
+      next_rhs(next_rhs.size() - 1) = b;
+    }
+    if (next.rows() == 0) {
+      converged = true;
+      steps_done = k - 1;
+      break;
+    }
+    kept.conservativeResize(kept.rows() + next.rows(), r);
+    kept.bottomRows(next.rows()) = next;
+    kept_rhs.conservativeResize(kept_rhs.size() + next_rhs.size());
+    kept_rhs.tail(next_rhs.size()) = next_rhs;
+    frontier = std::move(next);
+    frontier_rhs = std::move(next_rhs);
+  }
+
+  // Final redundancy pass (in z, where the set is bounded once converged), then lift back:
+  // a row h·z <= b is (h Vᵀ)·x <= b.
+  Polytope Sz(kept, kept_rhs);
+  Info info2;
+  if (converged) {
+    Sz = Sz.irredundant(ropt, false, &info2);
+    out.lp_solves += info2.lp_solves;
+    out.fallbacks += info2.fallbacks;
+  }
+  if (Sz.is_trivially_empty()) return finish(Polytope::empty(n), steps_done, converged);
+  const Matrix Hx = Sz.A() * V.transpose();
+  return finish(Polytope(Hx, Sz.b()), steps_done, converged);
+}
+
+/// Maximal admissible set of the closed loop x+ = (A - B K) x under u = -K x, with state
+/// constraints X (n-dimensional; empty Polytope(n) rows for none), input constraints U
+/// (m-dimensional) and mixed constraints `mixed` ((n + m)-dimensional, rows G x + H u <= f),
+/// all of which become rows in x: G x - H K x <= f. A: n x n, B: n x m, K: m x n. An argument
+/// given as a Polytope with no rows (Polytope(dim)) imposes nothing. Throws InvalidInputError
+/// naming the argument for wrong sizes or NaN/inf; the rest as max_admissible_set().
+inline AdmissibleResult closed_loop_admissible_set(const Matrix& A, const Matrix& B,
+                                                   const Matrix& K, const Polytope& X,
+                                                   const Polytope& U, const Polytope& mixed,
+                                                   const AdmissibleOptions& opt = {}) {
+  const Index n = A.rows();
+  if (n < 1 || A.cols() != n)
+    detail::invalid("A", "must be square with at least one row, got " + std::to_string(A.rows()) +
+                             " x " + std::to_string(A.cols()));
+  if (B.rows() != n || B.cols() < 1)
+    detail::invalid("B", "must have " + std::to_string(n) + " rows and at least one column");
+  const Index m = B.cols();
+  if (K.rows() != m || K.cols() != n)
+    detail::invalid("K", "must be " + std::to_string(m) + " x " + std::to_string(n) +
+                             " (u = -K x), got " + std::to_string(K.rows()) + " x " +
+                             std::to_string(K.cols()));
+  if (!A.allFinite()) detail::invalid("A", "contains NaN or inf");
+  if (!B.allFinite()) detail::invalid("B", "contains NaN or inf");
+  if (!K.allFinite()) detail::invalid("K", "contains NaN or inf");
+  if (X.dim() != n) detail::invalid("X", "must have dimension " + std::to_string(n));
+  if (U.dim() != m) detail::invalid("U", "must have dimension " + std::to_string(m));
+  if (mixed.dim() != n + m)
+    detail::invalid("mixed", "must have dimension " + std::to_string(n + m) + " (x, u)");
+  const Index rows = X.num_rows() + U.num_rows() + mixed.num_rows();
+  Matrix G(rows, n);
+  Vector f(rows);
+  Index at = 0;
+  G.middleRows(at, X.num_rows()) = X.A();
+  f.segment(at, X.num_rows()) = X.b();
+  at += X.num_rows();
+  G.middleRows(at, U.num_rows()) = -U.A() * K;
+  f.segment(at, U.num_rows()) = U.b();
+  at += U.num_rows();
+  G.middleRows(at, mixed.num_rows()) = mixed.A().leftCols(n) - mixed.A().rightCols(m) * K;
+  f.segment(at, mixed.num_rows()) = mixed.b();
+  const Matrix Acl = A - B * K;
+  return max_admissible_set(Acl, Polytope(G, f), opt);
+}
+
+}  // namespace corral

@@ -1,0 +1,199 @@
+"""Tests of corral.max_admissible_set and corral.closed_loop_admissible_set.
+
+Outside references, named beside each check:
+- an independent loop written here on scipy's HiGHS (scipy.optimize.linprog): it adds the rows
+  G A^k one step at a time, with no redundancy removal, and stops at its own first t with
+  O_{t+1} = O_t; pycddlib (cdd.matrix_canonicalize, double description) removes the redundant
+  rows of its answer;
+- the definition checked directly: maximality by simulation from just outside each facet, and
+  invariance at the vertices;
+- scipy.linalg.solve_discrete_are for the LQR gain of the closed-loop family.
+Systems are generated here from seeded numpy generators.
+"""
+
+from __future__ import annotations
+
+import math
+
+import cdd
+import corral
+import numpy as np
+import pytest
+import scipy.linalg
+from scipy.optimize import linprog
+
+
+def hi_max(c, A, b):
+    """max c·x over A x <= b with HiGHS: (value, status) with status 'optimal'/'unbounded'."""
+    res = linprog(-c, A_ub=A, b_ub=b, bounds=[(None, None)] * len(c), method="highs")
+    if res.status == 3:
+        return math.inf, "unbounded"
+    assert res.status == 0, res.message
+    return -res.fun, "optimal"
+
+
+def reference_admissible(A, G, f, max_steps=400, tol=1e-9):
+    """Independent loop (reference: scipy HiGHS): rows G A^k for k = 0, 1, ... until every row
+    of the next step is implied by the current ones; returns (t*, rows, rhs), no removal."""
+    rows, rhs = [G], [f]
+    Ak = np.eye(A.shape[0])
+    scale = max(1.0, np.abs(f).max())
+    for t in range(max_steps):
+        Ak = Ak @ A
+        cand = G @ Ak
+        H, h = np.vstack(rows), np.concatenate(rhs)
+        if all(hi_max(c, H, h)[0] <= fi + tol * scale for c, fi in zip(cand, f)):
+            return t, H, h
+        rows.append(cand)
+        rhs.append(f)
+    raise AssertionError("the reference loop did not converge")
+
+
+def cdd_irredundant_count(H, h):
+    """Number of irredundant rows of {H x <= h}; reference: pycddlib canonicalisation."""
+    mat = cdd.matrix_from_array(np.hstack([h[:, None], -H]), rep_type=cdd.RepType.INEQUALITY)
+    cdd.matrix_canonicalize(mat)
+    return len(mat.array)
+
+
+def contained(P_A, P_b, Q_A, Q_b, tol=1e-7):
+    """{P} ⊆ {Q}: one LP per row of Q (reference: scipy HiGHS)."""
+    scale = max(1.0, np.abs(Q_b).max())
+    return all(hi_max(q, P_A, P_b)[0] <= qb + tol * scale for q, qb in zip(Q_A, Q_b))
+
+
+def random_stable(rng, n, radius_range=(0.9, 0.99)):
+    """A = Q D Qᵀ: Q random orthogonal, D block diagonal with 2x2 rotations by angles in
+    [0.2, 0.8] scaled by radii in radius_range (a 1x1 block when n is odd)."""
+    D = np.zeros((n, n))
+    i = 0
+    while i < n:
+        r = rng.uniform(*radius_range)
+        if i + 1 < n:
+            th = rng.uniform(0.2, 0.8)
+            D[i : i + 2, i : i + 2] = r * np.array(
+                [[math.cos(th), -math.sin(th)], [math.sin(th), math.cos(th)]]
+            )
+            i += 2
+        else:
+            D[i, i] = r
+            i += 1
+    Q, _ = np.linalg.qr(rng.normal(size=(n, n)))
+    return Q @ D @ Q.T
+
+
+@pytest.mark.parametrize(
+    "n,radii,seed",
+    [(2, (0.9, 0.99), 1), (3, (0.8, 0.95), 2), (4, (0.9, 0.99), 3), (5, (0.7, 0.9), 4)],
+)
+def test_matches_independent_loop(n, radii, seed):
+    rng = np.random.default_rng(seed)
+    A = random_stable(rng, n, radii)
+    X = corral.Polytope.box(-np.ones(n), np.ones(n))
+    r = corral.max_admissible_set(A, X)
+    assert r.converged
+    t_ref, H, h = reference_admissible(A, X.A, X.b)  # reference: HiGHS loop, own convergence
+    assert r.steps == t_ref
+    assert contained(r.set.A, r.set.b, H, h) and contained(H, h, r.set.A, r.set.b)
+    assert r.set.num_rows == cdd_irredundant_count(H, h)  # reference: pycddlib
+    assert r.conditions.observable_spectral_radius == pytest.approx(
+        np.abs(np.linalg.eigvals(A)).max()
+    )
+
+
+def test_maximality_and_invariance_by_simulation():
+    # From just outside each facet the trajectory leaves X within t* steps; from every vertex
+    # it stays in the set (definition of the maximal admissible set).
+    rng = np.random.default_rng(7)
+    n = 3
+    A = random_stable(rng, n, (0.9, 0.97))
+    lo, hi = -np.array([1.0, 2.0, 0.5]), np.array([2.0, 1.0, 1.5])
+    X = corral.Polytope.box(lo, hi)
+    r = corral.max_admissible_set(A, X)
+    S = r.set
+    c = S.chebyshev_center().center
+    for a, b in zip(S.A, S.b):
+        x = c + (b - a @ c + 1e-6) * a  # just outside this facet, near its middle
+        left = False
+        for _ in range(r.steps + 1):
+            left = left or not X.contains(x)
+            x = A @ x
+        assert left
+    for v in S.vertices():
+        assert S.contains(A @ v, tol=1e-9)
+        x = v
+        for _ in range(300):
+            assert X.contains(x, tol=1e-9)
+            x = A @ x
+
+
+def test_closed_loop_lqr_family():
+    # Random 4-state plant, 2 inputs, LQR gain for Q = I, R = I (reference gain: scipy's
+    # solve_discrete_are); box states and inputs. Checked against the independent loop on the
+    # stacked constraints [X; -U K] with A - B K.
+    rng = np.random.default_rng(11)
+    n, m = 4, 2
+    A = rng.normal(size=(n, n)) / 2.0
+    B = rng.normal(size=(n, m))
+    P = scipy.linalg.solve_discrete_are(A, B, np.eye(n), np.eye(m))
+    K = np.linalg.solve(np.eye(m) + B.T @ P @ B, B.T @ P @ A)
+    assert np.allclose(corral.lqr(A, B, np.eye(n), np.eye(m)).K, K, atol=1e-8)
+    X = corral.Polytope.box(-5 * np.ones(n), 5 * np.ones(n))
+    U = corral.Polytope.box(-np.ones(m), np.ones(m))
+    r = corral.closed_loop_admissible_set(A, B, K, X, U)
+    assert r.converged
+    G = np.vstack([X.A, -U.A @ K])
+    f = np.concatenate([X.b, U.b])
+    t_ref, H, h = reference_admissible(A - B @ K, G, f)
+    assert r.steps == t_ref
+    assert contained(r.set.A, r.set.b, H, h) and contained(H, h, r.set.A, r.set.b)
+
+
+def test_conditions_and_errors():
+    X = corral.Polytope.box([-1.0, -1.0], [1.0, 1.0])
+    with pytest.raises(corral.NotFinitelyDeterminedError, match="spectral radius"):
+        corral.max_admissible_set(np.diag([1.0, 0.5]), X)
+    with pytest.raises(corral.InvalidInputError, match="^A:"):
+        corral.max_admissible_set(np.eye(3), X)
+    with pytest.raises(corral.InvalidInputError, match="^A:"):
+        corral.max_admissible_set([[np.nan, 0], [0, 0.5]], X)
+    with pytest.raises(corral.InvalidInputError, match="^X:"):
+        corral.max_admissible_set(np.eye(2) * 0.5, [[1, 0]])
+    with pytest.raises(corral.InvalidInputError, match="^K:"):
+        corral.closed_loop_admissible_set(np.eye(2), np.ones((2, 1)), np.ones((2, 2)), X)
+    with pytest.raises(corral.InvalidInputError, match="^max_steps:"):
+        corral.max_admissible_set(np.eye(2) * 0.5, X, max_steps=0)
+    # 0 outside X with stable dynamics: empty. Unobservable unstable direction: X itself.
+    r = corral.max_admissible_set(np.eye(2) * 0.5, corral.Polytope.box([1.0, 1.0], [2.0, 2.0]))
+    assert r.converged and r.set.is_empty() and not r.conditions.origin_interior
+    strip = corral.Polytope([[1.0, 0.0], [-1.0, 0.0]], [1.0, 1.0])
+    r = corral.max_admissible_set(np.diag([0.5, 3.0]), strip)
+    assert r.set.same_set(strip) and r.conditions.observable_dim == 1
+    # A strip in x1 seen through a coupled, observable A: bounded up to a subspace (the strip's
+    # recession directions are its lineality), and the set becomes bounded.
+    A = np.array([[0.5, 1.0], [0.0, 0.5]])
+    r = corral.max_admissible_set(A, strip)
+    assert r.converged and r.conditions.bounded_up_to_subspace and r.set.is_bounded()
+    t_ref, H, h = reference_admissible(A, strip.A, strip.b)  # reference: HiGHS loop
+    assert r.steps == t_ref
+    assert contained(r.set.A, r.set.b, H, h) and contained(H, h, r.set.A, r.set.b)
+    # A half-plane x1 <= 1: a recession direction (-1, 0) that is not a lineality direction.
+    # The condition is reported as failing; the iteration runs to max_steps.
+    half = corral.Polytope([[1.0, 0.0]], [1.0])
+    r = corral.max_admissible_set(A, half, max_steps=20)
+    assert not r.conditions.bounded_up_to_subspace
+
+
+def test_max_steps_and_progress():
+    A = 0.99 * np.array([[math.cos(0.05), -math.sin(0.05)], [math.sin(0.05), math.cos(0.05)]])
+    X = corral.Polytope.box([-1.0, -1.0], [1.0, 1.0])
+    r = corral.max_admissible_set(A, X, max_steps=2)
+    assert not r.converged and r.steps == 2
+    full = corral.max_admissible_set(A, X)
+    assert full.converged and full.steps > 2
+    assert full.set.is_subset(r.set)  # the last iterate is an outer bound
+    seen = []
+    corral.max_admissible_set(A, X, progress=lambda p: seen.append(p["done"]) is None)
+    assert seen and seen[-1] >= full.steps
+    with pytest.raises(corral.CancelledError):
+        corral.max_admissible_set(A, X, progress=lambda p: False)
