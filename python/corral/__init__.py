@@ -7,11 +7,14 @@ the conveniences that belong in Python.
 from __future__ import annotations
 
 from ._core import (
+    AdmissibleCertificate,
     AdmissibleResult,
     CancelledError,
+    Certificate,
     CorralError,
     FiniteDetermination,
     InvalidInputError,
+    InvarianceReport,
     LPResult,
     LqrResult,
     NotFinitelyDeterminedError,
@@ -31,17 +34,21 @@ from ._core import (
     max_admissible_set,
     maximize,
     set_lp_verify_tolerance,
+    verify_invariance,
 )
 from ._polytope import ChebyshevBall, Info
 
 __all__ = [
+    "AdmissibleCertificate",
     "AdmissibleResult",
     "CancelledError",
+    "Certificate",
     "ChebyshevBall",
     "CorralError",
     "FiniteDetermination",
     "Info",
     "InvalidInputError",
+    "InvarianceReport",
     "LPResult",
     "LqrResult",
     "NotFinitelyDeterminedError",
@@ -60,6 +67,7 @@ __all__ = [
     "maximize",
     "set_defaults",
     "set_lp_verify_tolerance",
+    "verify_invariance",
 ]
 
 

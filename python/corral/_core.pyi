@@ -63,6 +63,37 @@ class FiniteDetermination:
     observable_dim: int
     observable_spectral_radius: float
 
+class Certificate:
+    @property
+    def rows(self) -> list[tuple[npt.NDArray[np.int64], npt.NDArray[np.float64]]]: ...
+    @property
+    def margins(self) -> npt.NDArray[np.float64]: ...
+    worst_margin: float
+    worst_row: int
+    max_residual: float
+    holds: bool
+    tolerance: float
+    lp_solves: int
+
+class AdmissibleCertificate:
+    invariance: Certificate
+    admissibility: Certificate
+    holds: bool
+
+class InvarianceReport:
+    holds: bool
+    worst_margin: float
+    certificate: Certificate
+
+def verify_invariance(
+    A: npt.ArrayLike,
+    S: Polytope,
+    *,
+    certificate: Certificate | None = None,
+    backend: str | None = None,
+    tol: float | None = None,
+) -> InvarianceReport: ...
+
 class AdmissibleResult:
     set: Polytope
     steps: int
@@ -71,6 +102,8 @@ class AdmissibleResult:
     fallbacks: int
     seconds: float
     conditions: FiniteDetermination
+    certificate: AdmissibleCertificate
+    worst_margin: float
 
 def max_admissible_set(
     A: npt.ArrayLike,

@@ -34,6 +34,67 @@ void register_control(py::module_& m) {
                ", observable_dim=" + std::to_string(c.observable_dim) +
                ", observable_spectral_radius=" + std::to_string(c.observable_spectral_radius) + ")";
       });
+  py::class_<Certificate>(m, "Certificate",
+                          "Farkas certificates of rows c x <= d over a set S = {F x <= t}: for "
+                          "each row, multipliers lam >= 0 on S's rows with lam F = c and "
+                          "lam t <= d.")
+      .def_property_readonly(
+          "rows",
+          [](const Certificate& c) {
+            py::list out;
+            for (const RowCertificate& r : c.rows) {
+              Eigen::Matrix<Index, Eigen::Dynamic, 1> idx(static_cast<Index>(r.rows.size()));
+              for (size_t q = 0; q < r.rows.size(); ++q) idx(static_cast<Index>(q)) = r.rows[q];
+              const Vector w =
+                  Eigen::Map<const Vector>(r.weights.data(), static_cast<Index>(r.weights.size()));
+              out.append(py::make_tuple(idx, w));
+            }
+            return out;
+          },
+          "One (row indices, multipliers) pair per certified row (sparse lam).")
+      .def_property_readonly("margins",
+                             [](const Certificate& c) {
+                               Vector v(static_cast<Index>(c.rows.size()));
+                               for (size_t j = 0; j < c.rows.size(); ++j)
+                                 v(static_cast<Index>(j)) = c.rows[j].margin;
+                               return v;
+                             })
+      .def_readonly("worst_margin", &Certificate::worst_margin)
+      .def_readonly("worst_row", &Certificate::worst_row)
+      .def_readonly("max_residual", &Certificate::max_residual)
+      .def_readonly("holds", &Certificate::holds)
+      .def_readonly("tolerance", &Certificate::tolerance)
+      .def_readonly("lp_solves", &Certificate::lp_solves);
+  py::class_<AdmissibleCertificate>(m, "AdmissibleCertificate",
+                                    "Invariance and admissibility certificates of a set.")
+      .def_readonly("invariance", &AdmissibleCertificate::invariance)
+      .def_readonly("admissibility", &AdmissibleCertificate::admissibility)
+      .def_readonly("holds", &AdmissibleCertificate::holds);
+  py::class_<InvarianceReport>(m, "InvarianceReport", "Result of verify_invariance().")
+      .def_readonly("holds", &InvarianceReport::holds)
+      .def_readonly("worst_margin", &InvarianceReport::worst_margin)
+      .def_readonly("certificate", &InvarianceReport::certificate);
+  m.def(
+      "verify_invariance",
+      [](py::object A, py::object S, py::object certificate, py::object backend, py::object tol) {
+        const Matrix Am = to_matrix(A, "A");
+        if (!py::isinstance<Polytope>(S)) corral::detail::invalid("S", "must be a Polytope");
+        const Polytope Sp = S.cast<Polytope>();
+        const Certificate* given = nullptr;
+        Certificate held;
+        if (!certificate.is_none()) {
+          if (!py::isinstance<Certificate>(certificate))
+            corral::detail::invalid("certificate", "must be a Certificate or None");
+          held = certificate.cast<Certificate>();
+          given = &held;
+        }
+        CallOptions c = make_options(backend, tol, py::none());
+        return run_released(c, [&] { return verify_invariance(Am, Sp, given, c.options); });
+      },
+      py::arg("A"), py::arg("S"), py::kw_only(), py::arg("certificate") = py::none(),
+      py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+      "Checks A S <= S for S = {F x <= t}: with a certificate, checks it without LPs; otherwise\n"
+      "computes one (one LP per row). Returns .holds, .worst_margin, .certificate.");
   py::class_<AdmissibleResult>(m, "AdmissibleResult", "Result of max_admissible_set().")
       .def_readonly("set", &AdmissibleResult::set, "The set (irredundant when converged).")
       .def_readonly("steps", &AdmissibleResult::steps,
@@ -44,6 +105,9 @@ void register_control(py::module_& m) {
       .def_readonly("fallbacks", &AdmissibleResult::fallbacks)
       .def_readonly("seconds", &AdmissibleResult::seconds)
       .def_readonly("conditions", &AdmissibleResult::conditions)
+      .def_readonly("certificate", &AdmissibleResult::certificate,
+                    "Invariance and admissibility certificates (converged, non-empty sets).")
+      .def_readonly("worst_margin", &AdmissibleResult::worst_margin)
       .def("__repr__", [](const AdmissibleResult& r) {
         return "AdmissibleResult(" + std::to_string(r.set.num_rows()) + " rows, steps " +
                std::to_string(r.steps) + (r.converged ? ", converged" : ", NOT converged") + ", " +

@@ -164,3 +164,33 @@ TEST_CASE("admissible: closed loop with state, input and mixed limits") {
                                                           interval(-1, 1), Polytope(2)),
                        doctest::Contains("K:"), corral::InvalidInputError);
 }
+
+TEST_CASE("admissible: certificates verify, and the constraint set itself fails when t* > 0") {
+  // The rotation of the test above: its set carries certificates of A S ⊆ S and S ⊆ X that
+  // check without LPs; X itself (t* > 0, so X is not invariant) fails verification.
+  const double th = 0.3, rho = 0.98;
+  Matrix A(2, 2);
+  A << rho * std::cos(th), -rho * std::sin(th), rho * std::sin(th), rho * std::cos(th);
+  const Polytope X = Polytope::box(-Vector::Ones(2), Vector::Ones(2));
+  const corral::AdmissibleResult r = corral::max_admissible_set(A, X);
+  REQUIRE(r.converged);
+  REQUIRE(r.steps > 0);
+  CHECK(r.certificate.holds);
+  CHECK(r.worst_margin >= -1e-12);
+  CHECK(r.certificate.invariance.rows.size() == static_cast<size_t>(r.set.num_rows()));
+  for (const corral::RowCertificate& rc : r.certificate.invariance.rows)
+    CHECK(rc.rows.size() <= 2);  // at most n non-zero multipliers
+  // Re-checked from the stored certificate alone (no LP): the same verdict.
+  const corral::InvarianceReport again =
+      corral::verify_invariance(A, r.set, &r.certificate.invariance);
+  CHECK(again.holds);
+  CHECK(again.certificate.lp_solves == 0);
+  // A tampered certificate fails: one multiplier halved.
+  corral::Certificate bad = r.certificate.invariance;
+  bad.rows[0].weights[0] *= 0.5;
+  CHECK_FALSE(corral::verify_invariance(A, r.set, &bad).holds);
+  // X is not invariant: the corner (1, 1) rotates out of the square.
+  const corral::InvarianceReport rx = corral::verify_invariance(A, X);
+  CHECK_FALSE(rx.holds);
+  CHECK(rx.worst_margin < -0.01);
+}

@@ -62,6 +62,24 @@ def contained(P_A, P_b, Q_A, Q_b, tol=1e-7):
     return all(hi_max(q, P_A, P_b)[0] <= qb + tol * scale for q, qb in zip(Q_A, Q_b))
 
 
+def check_certificates(A, S, X_A, X_b, result):
+    """The certificates of `result`, checked here with numpy from their definition (Farkas):
+    for each row, lam >= 0 with lam F = c (F_i A for invariance, the rows of X for
+    admissibility) and lam t <= d, up to rounding."""
+    F, t = S.A, S.b
+    scale = max(1.0, np.abs(t).max(), np.abs(X_b).max())
+    for cert, C, d in (
+        (result.certificate.invariance, F @ A, t),
+        (result.certificate.admissibility, X_A, X_b),
+    ):
+        assert cert.holds and len(cert.rows) == len(C)
+        for (idx, lam), c, dj in zip(cert.rows, C, d):
+            assert np.all(lam >= 0) and len(idx) <= F.shape[1] + 1
+            assert np.abs(lam @ F[idx] - c).max() <= 1e-9 * (1 + lam.sum())
+            assert lam @ t[idx] <= dj + 1e-9 * scale
+    assert result.worst_margin >= -1e-9 * scale
+
+
 def random_stable(rng, n, radius_range=(0.9, 0.99)):
     """A = Q D Qᵀ: Q random orthogonal, D block diagonal with 2x2 rotations by angles in
     [0.2, 0.8] scaled by radii in radius_range (a 1x1 block when n is odd)."""
@@ -96,6 +114,15 @@ def test_matches_independent_loop(n, radii, seed):
     assert r.steps == t_ref
     assert contained(r.set.A, r.set.b, H, h) and contained(H, h, r.set.A, r.set.b)
     assert r.set.num_rows == cdd_irredundant_count(H, h)  # reference: pycddlib
+    X_irr = X.irredundant()
+    check_certificates(A, r.set, X_irr.A, X_irr.b, r)  # definition checked directly
+    # The constraint set itself is not invariant when t* > 0 (its own certificate fails).
+    if r.steps > 0:
+        rep = corral.verify_invariance(A, X)
+        assert not rep.holds and rep.worst_margin < 0
+    # A stored certificate re-checks without LPs.
+    again = corral.verify_invariance(A, r.set, certificate=r.certificate.invariance)
+    assert again.holds and again.certificate.lp_solves == 0
     assert r.conditions.observable_spectral_radius == pytest.approx(
         np.abs(np.linalg.eigvals(A)).max()
     )
@@ -147,6 +174,13 @@ def test_closed_loop_lqr_family():
     t_ref, H, h = reference_admissible(A - B @ K, G, f)
     assert r.steps == t_ref
     assert contained(r.set.A, r.set.b, H, h) and contained(H, h, r.set.A, r.set.b)
+    # Certificates: invariance under A - B K, admissibility against every stacked limit
+    # (states and inputs), checked from the definition. The routine's admissibility rows are
+    # the irredundant stacked rows; certify all of G here by the same Farkas test with LPs.
+    assert r.certificate.holds and r.worst_margin >= -1e-9 * 5
+    rep = corral.verify_invariance(A - B @ K, r.set)
+    assert rep.holds
+    assert contained(r.set.A, r.set.b, G, f)  # S ⊆ X and -K S ⊆ U, one HiGHS LP per row
 
 
 def test_conditions_and_errors():
@@ -193,7 +227,9 @@ def test_max_steps_and_progress():
     assert full.converged and full.steps > 2
     assert full.set.is_subset(r.set)  # the last iterate is an outer bound
     seen = []
-    corral.max_admissible_set(A, X, progress=lambda p: seen.append(p["done"]) is None)
-    assert seen and seen[-1] >= full.steps
+    corral.max_admissible_set(A, X, progress=lambda p: seen.append(dict(p)) is None)
+    steps_seen = [p["done"] for p in seen if p["stage"] == "admissible set"]
+    assert steps_seen and max(steps_seen) == full.steps + 1  # the step that added nothing
+    assert {p["stage"] for p in seen} >= {"admissible set", "certificate"}
     with pytest.raises(corral.CancelledError):
         corral.max_admissible_set(A, X, progress=lambda p: False)

@@ -20,8 +20,10 @@
 /// by A and tests every new row against the current set with one LP (early stop at its
 /// right-hand side), adding it only when it cuts. A row found redundant never needs to be
 /// propagated again: if it holds on O_k, its image holds on O_{k+1}. The first step that adds
-/// nothing proves O_{t+1} = O_t, so t* = t. A final redundancy pass leaves the irredundant set.
+/// nothing proves O_{t+1} = O_t, so t* = t. A final redundancy pass leaves the irredundant set,
+/// and certificates of invariance and admissibility (certificate.hpp) come with it.
 
+#include <corral/certificate.hpp>
 #include <corral/errors.hpp>
 #include <corral/lp/solver.hpp>
 #include <corral/options.hpp>
@@ -52,6 +54,15 @@ struct AdmissibleOptions : Options {
   int max_steps = 1000;  ///< steps of the iteration before giving up (converged = false)
 };
 
+/// The evidence that comes with a maximal admissible set: invariance (A S ⊆ S) and
+/// admissibility (S ⊆ X, with X's rows as given, inputs and mixed rows included for the
+/// closed loop), each one Farkas certificate per row (certificate.hpp).
+struct AdmissibleCertificate {
+  Certificate invariance;     ///< one λ per row of the set: rows F_i A, bounds t_i
+  Certificate admissibility;  ///< one λ per row of the (irredundant) constraints
+  bool holds = false;         ///< both hold at their tolerance
+};
+
 /// Result of max_admissible_set().
 struct AdmissibleResult {
   Polytope set;            ///< the maximal admissible set, irredundant (or the last iterate)
@@ -61,6 +72,11 @@ struct AdmissibleResult {
   long fallbacks = 0;      ///< LP answers re-solved by another backend
   double seconds = 0.0;    ///< wall-clock time
   FiniteDetermination conditions;
+  /// Certificates of the converged, non-empty set (empty otherwise: a last iterate is not
+  /// invariant, and the empty set needs none).
+  AdmissibleCertificate certificate;
+  /// min of the certificates' margins (+inf when there is no certificate)
+  double worst_margin = std::numeric_limits<double>::infinity();
 };
 
 namespace detail {
@@ -247,7 +263,16 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
   }
   if (Sz.is_trivially_empty()) return finish(Polytope::empty(n), steps_done, converged);
   const Matrix Hx = Sz.A() * V.transpose();
-  return finish(Polytope(Hx, Sz.b()), steps_done, converged);
+  Polytope S(Hx, Sz.b());
+  if (converged) {
+    AdmissibleCertificate& cert = out.certificate;
+    cert.invariance = verify_invariance(A, S, nullptr, ropt).certificate;
+    cert.admissibility = certify_rows(S, G, f, ropt);
+    cert.holds = cert.invariance.holds && cert.admissibility.holds;
+    out.lp_solves += cert.invariance.lp_solves + cert.admissibility.lp_solves;
+    out.worst_margin = std::min(cert.invariance.worst_margin, cert.admissibility.worst_margin);
+  }
+  return finish(std::move(S), steps_done, converged);
 }
 
 /// Maximal admissible set of the closed loop x+ = (A - B K) x under u = -K x, with state

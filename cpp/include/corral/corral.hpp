@@ -3,6 +3,7 @@
 /// Umbrella header: includes every public header of corral.
 
 #include <corral/admissible.hpp>
+#include <corral/certificate.hpp>
 #include <corral/defaults.hpp>
 #include <corral/enumeration.hpp>
 #include <corral/errors.hpp>

@@ -1,0 +1,181 @@
+#pragma once
+/// \file certificate.hpp
+/// Farkas certificates for linear containments over S = {x : F x <= t} (non-empty): a row
+/// c·x <= d holds on S exactly when some λ >= 0 has λᵀ F = c and λᵀ t <= d (Farkas' lemma;
+/// the λ of a basic LP solution has at most n non-zero entries and is stored sparsely).
+/// - invariance of S under x+ = A x: the rows F_i A with bounds t_i (A S ⊆ S);
+/// - admissibility: the rows of X with their bounds (S ⊆ X).
+/// Each λ comes from the duals of one LP, max c·x over S (Boyd & Vandenberghe 2004, §5.8).
+/// A certificate is checked without LPs: λ >= 0, the residual |λᵀ F - c| and the margin
+/// d - λᵀ t. `holds` is judged at tolerance tol * max(1, max |t|, max |d|) on both the residual
+/// (relative to |c| + Σ λ_i) and the margin; the worst margin is reported beside it. Rows of
+/// these sets are often exactly tight under A, so a margin of the order of 1e-16 is normal.
+
+#include <corral/errors.hpp>
+#include <corral/lp/solver.hpp>
+#include <corral/options.hpp>
+#include <corral/polytope.hpp>
+
+#include <cmath>
+#include <limits>
+#include <string>
+#include <vector>
+
+namespace corral {
+
+/// One certified row c·x <= d: λ on the rows `rows` of S (indices into S's stored rows).
+struct RowCertificate {
+  std::vector<Index> rows;      ///< support of λ
+  std::vector<double> weights;  ///< λ on those rows (>= 0)
+  double bound = 0.0;           ///< λᵀ t, the certified upper bound of c·x on S
+  double margin = 0.0;          ///< d - λᵀ t (>= 0 up to rounding when the row holds)
+  double residual = 0.0;        ///< max |λᵀ F - c|
+};
+
+/// Certificates of a family of rows (invariance or admissibility), one per row.
+struct Certificate {
+  std::vector<RowCertificate> rows;
+  double worst_margin = std::numeric_limits<double>::infinity();  ///< min margin
+  Index worst_row = -1;                                           ///< row of the worst margin
+  double max_residual = 0.0;                                      ///< max residual over the rows
+  bool holds = false;                                             ///< judged at `tolerance`
+  double tolerance = 0.0;  ///< absolute tolerance used for `holds`
+  long lp_solves = 0;      ///< LPs solved to build it (0 when only checked)
+};
+
+namespace detail {
+
+/// Checks the λ of each row against S, C, d and fills margins, residuals and holds.
+inline void check_certificate(const Polytope& S, const Matrix& C, const Vector& d, double tol,
+                              Certificate& cert) {
+  const Matrix& F = S.A();
+  const Vector& t = S.b();
+  double scale = 1.0;
+  if (t.size()) scale = std::max(scale, t.cwiseAbs().maxCoeff());
+  if (d.size()) scale = std::max(scale, d.cwiseAbs().maxCoeff());
+  cert.tolerance = tol * scale;
+  cert.worst_margin = std::numeric_limits<double>::infinity();
+  cert.worst_row = -1;
+  cert.max_residual = 0.0;
+  bool ok = static_cast<Index>(cert.rows.size()) == C.rows();
+  for (Index j = 0; j < C.rows() && ok; ++j) {
+    RowCertificate& rc = cert.rows[static_cast<size_t>(j)];
+    if (rc.rows.size() != rc.weights.size()) {
+      ok = false;
+      break;
+    }
+    Eigen::RowVectorXd combo = Eigen::RowVectorXd::Zero(F.cols());
+    double bound = 0.0, weight = 0.0;
+    for (size_t q = 0; q < rc.rows.size(); ++q) {
+      const Index i = rc.rows[q];
+      const double w = rc.weights[q];
+      if (i < 0 || i >= F.rows() || !(w >= 0.0) || !std::isfinite(w)) {
+        ok = false;
+        break;
+      }
+      combo += w * F.row(i);
+      bound += w * t(i);
+      weight += w;
+    }
+    if (!ok) break;
+    rc.bound = bound;
+    rc.margin = d(j) - bound;
+    rc.residual = (combo - C.row(j)).cwiseAbs().maxCoeff();
+    cert.max_residual = std::max(cert.max_residual, rc.residual);
+    if (rc.margin < cert.worst_margin) {
+      cert.worst_margin = rc.margin;
+      cert.worst_row = j;
+    }
+    const double res_tol = tol * (C.row(j).cwiseAbs().maxCoeff() + weight + 1.0);
+    if (rc.residual > res_tol || rc.margin < -cert.tolerance) ok = false;
+  }
+  cert.holds = ok;
+}
+
+}  // namespace detail
+
+/// Certificates that every row c_j·x <= d_j (rows of C, entries of d) holds on the non-empty
+/// S, one LP each on S (opt.backend). A row whose LP is unbounded or infeasible gets an
+/// empty certificate and makes `holds` false.
+inline Certificate certify_rows(const Polytope& S, const Matrix& C, const Vector& d,
+                                const Options& opt = {}) {
+  if (C.cols() != S.dim())
+    detail::invalid("C", "must have " + std::to_string(S.dim()) + " columns");
+  if (d.size() != C.rows()) detail::invalid("d", "must have one entry per row of C");
+  Certificate cert;
+  cert.rows.resize(static_cast<size_t>(C.rows()));
+  bool all_found = true;
+  if (C.rows() > 0 && S.num_rows() > 0) {
+    auto lp = lp::make_solver(S.A(), S.b(), Vector::Zero(S.dim()), opt.backend);
+    for (Index j = 0; j < C.rows(); ++j) {
+      if (opt.progress) {
+        Progress p;
+        p.stage = "certificate";
+        p.done = j;
+        p.total = C.rows();
+        p.lp_solves = cert.lp_solves;
+        if (!opt.progress(p)) throw CancelledError();
+      }
+      lp->set_objective(C.row(j).transpose());
+      const lp::Result r = lp->solve();
+      ++cert.lp_solves;
+      RowCertificate& rc = cert.rows[static_cast<size_t>(j)];
+      if (r.status != lp::Status::optimal || !r.has_duals()) {
+        all_found = false;
+        continue;
+      }
+      for (Index i = 0; i < r.duals.size(); ++i)
+        if (r.duals(i) > 0.0) {
+          rc.rows.push_back(i);
+          rc.weights.push_back(r.duals(i));
+        }
+    }
+  } else if (C.rows() > 0) {
+    all_found = false;  // S has no rows: only 0 <= d rows could be certified; not handled
+  }
+  detail::check_certificate(S, C, d, opt.tolerance(), cert);
+  cert.holds = cert.holds && all_found;
+  return cert;
+}
+
+/// Report of verify_invariance(): the certificate of A S ⊆ S and its verdict.
+struct InvarianceReport {
+  bool holds = false;         ///< every row certified within the tolerance
+  double worst_margin = 0.0;  ///< min over rows of t_i - λᵀ t
+  Certificate certificate;    ///< one λ per row of S
+};
+
+/// Checks A S ⊆ S for S = {F x <= t}: with `certificate` given, only checks it (no LP);
+/// otherwise computes one (one LP per row). An empty S is invariant (holds, margin +inf).
+/// Throws InvalidInputError naming the argument for a wrong size of A or a certificate of
+/// the wrong length.
+inline InvarianceReport verify_invariance(const Matrix& A, const Polytope& S,
+                                          const Certificate* certificate = nullptr,
+                                          const Options& opt = {}) {
+  const Index n = S.dim();
+  if (A.rows() != n || A.cols() != n)
+    detail::invalid("A", "must be " + std::to_string(n) + " x " + std::to_string(n));
+  if (!A.allFinite()) detail::invalid("A", "contains NaN or inf");
+  InvarianceReport rep;
+  if (S.is_trivially_empty()) {
+    rep.holds = true;
+    rep.worst_margin = std::numeric_limits<double>::infinity();
+    return rep;
+  }
+  const Matrix C = S.A() * A;
+  if (certificate != nullptr) {
+    if (static_cast<Index>(certificate->rows.size()) != S.num_rows())
+      detail::invalid("certificate",
+                      "must have one entry per row of S (" + std::to_string(S.num_rows()) + ")");
+    rep.certificate = *certificate;
+    rep.certificate.lp_solves = 0;
+    detail::check_certificate(S, C, S.b(), opt.tolerance(), rep.certificate);
+  } else {
+    rep.certificate = certify_rows(S, C, S.b(), opt);
+  }
+  rep.holds = rep.certificate.holds;
+  rep.worst_margin = rep.certificate.worst_margin;
+  return rep;
+}
+
+}  // namespace corral
