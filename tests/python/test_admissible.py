@@ -14,6 +14,7 @@ Systems are generated here from seeded numpy generators.
 from __future__ import annotations
 
 import math
+import time
 
 import cdd
 import corral
@@ -233,3 +234,23 @@ def test_max_steps_and_progress():
     assert {p["stage"] for p in seen} >= {"admissible set", "certificate"}
     with pytest.raises(corral.CancelledError):
         corral.max_admissible_set(A, X, progress=lambda p: False)
+
+
+def test_ctrl_c_stops_between_lp_solves():
+    # SIGINT from a timer while a long computation runs with the GIL released: the routine
+    # stops between LP solves with KeyboardInterrupt, and the process stays usable.
+    import signal
+    import threading
+
+    rng = np.random.default_rng(5)
+    A = random_stable(rng, 20, (0.97, 0.99))  # takes seconds: many steps, thousands of LPs
+    X = corral.Polytope.box(-np.ones(20), np.ones(20))
+    timer = threading.Timer(0.3, lambda: signal.raise_signal(signal.SIGINT))
+    timer.start()
+    t0 = time.perf_counter()
+    with pytest.raises(KeyboardInterrupt):
+        corral.max_admissible_set(A, X)
+    assert time.perf_counter() - t0 < 5.0
+    timer.join()
+    r = corral.max_admissible_set(0.5 * np.eye(2), corral.Polytope.box([-1, -1], [1, 1]))
+    assert r.converged
