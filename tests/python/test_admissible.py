@@ -238,19 +238,25 @@ def test_max_steps_and_progress():
 
 def test_ctrl_c_stops_between_lp_solves():
     # SIGINT from a timer while a long computation runs with the GIL released: the routine
-    # stops between LP solves with KeyboardInterrupt, and the process stays usable.
+    # stops between LP solves with KeyboardInterrupt, and the process stays usable. The system
+    # takes several seconds uninterrupted (n = 28, radii near 1: t* in the tens, thousands of
+    # LPs); the timer fires after 0.3 s and is cancelled if the call ends first, so no signal
+    # can arrive after the test.
     import signal
     import threading
 
     rng = np.random.default_rng(5)
-    A = random_stable(rng, 20, (0.97, 0.99))  # takes seconds: many steps, thousands of LPs
-    X = corral.Polytope.box(-np.ones(20), np.ones(20))
+    A = random_stable(rng, 28, (0.97, 0.99))
+    X = corral.Polytope.box(-np.ones(28), np.ones(28))
     timer = threading.Timer(0.3, lambda: signal.raise_signal(signal.SIGINT))
-    timer.start()
     t0 = time.perf_counter()
-    with pytest.raises(KeyboardInterrupt):
-        corral.max_admissible_set(A, X)
+    timer.start()
+    try:
+        with pytest.raises(KeyboardInterrupt):
+            corral.max_admissible_set(A, X)
+    finally:
+        timer.cancel()
+        timer.join()
     assert time.perf_counter() - t0 < 5.0
-    timer.join()
     r = corral.max_admissible_set(0.5 * np.eye(2), corral.Polytope.box([-1, -1], [1, 1]))
     assert r.converged
