@@ -18,16 +18,14 @@ Usage: python3 benchmarks/bench_admissible.py [--n 2,4,8,12,16,24,32] [--seed S]
 from __future__ import annotations
 
 import argparse
-import json
 import math
-import multiprocessing as mp
 import os
-import platform
 import time
 
 import corral
 import numpy as np
 import scipy
+from bench_common import run_capped, write_results
 from scipy.optimize import linprog
 
 
@@ -89,19 +87,6 @@ def scipy_loop(A, G, f, queue, max_steps=5000):
         if res.status == 0 and -res.fun <= h[i] + 1e-9 * scale:
             keep[i] = False
     queue.put((time.perf_counter() - t0, t_star, int(keep.sum()), lps))
-
-
-def run_capped(target, args, cap):
-    ctx = mp.get_context("fork")
-    queue = ctx.Queue()
-    proc = ctx.Process(target=target, args=(*args, queue))
-    proc.start()
-    proc.join(cap)
-    if proc.is_alive():
-        proc.kill()
-        proc.join()
-        return None
-    return queue.get() if not queue.empty() else None
 
 
 def main():
@@ -182,25 +167,7 @@ def main():
                     else dict(seconds=base[0], steps=base[1], rows=base[2], lps=base[3]),
                 )
             )
-    os.makedirs(os.path.dirname(os.path.abspath(args.out)), exist_ok=True)
-    with open(args.out, "w", encoding="utf-8") as fh:
-        json.dump(
-            dict(
-                benchmark="admissible",
-                seed=args.seed,
-                cap=args.cap,
-                corral=corral.__version__,
-                scipy=scipy.__version__,
-                python=platform.python_version(),
-                machine=platform.machine(),
-                cores=os.cpu_count(),
-                date=time.strftime("%Y-%m-%d %H:%M:%S"),
-                cases=out,
-            ),
-            fh,
-            indent=1,
-        )
-    print(f"\nwritten: {args.out}")
+    write_results(args.out, "admissible", seed=args.seed, cap=args.cap, cases=out)
 
 
 if __name__ == "__main__":

@@ -25,10 +25,7 @@ Usage: python3 benchmarks/bench_vertices.py [--seed S] [--cap SECONDS] [--n 3,4,
 from __future__ import annotations
 
 import argparse
-import json
-import multiprocessing as mp
 import os
-import platform
 import statistics
 import time
 
@@ -36,6 +33,7 @@ import cdd
 import corral
 import numpy as np
 import scipy
+from bench_common import run_capped, write_results
 from scipy.optimize import linprog
 from scipy.spatial import ConvexHull, HalfspaceIntersection
 
@@ -105,16 +103,8 @@ def _cdd_vertices(A, b, queue):
 
 def cdd_time(A, b, cap):
     """cddlib (double) in a child process, killed at the cap: (seconds or None, vertices)."""
-    ctx = mp.get_context("fork")
-    queue = ctx.Queue()
-    proc = ctx.Process(target=_cdd_vertices, args=(A, b, queue))
-    proc.start()
-    proc.join(cap)
-    if proc.is_alive():
-        proc.kill()
-        proc.join()
-        return None, None
-    return queue.get() if not queue.empty() else (None, None)
+    got = run_capped(_cdd_vertices, (A, b), cap)
+    return got if got is not None else (None, None)
 
 
 def moment_curve(k, d):
@@ -259,29 +249,15 @@ def main():
             dict(d=d, k=k, facets=Q.num_rows, path=info.method, auto_s=t_a, exact_s=t_e)
         )
 
-    os.makedirs(os.path.dirname(os.path.abspath(args.out)), exist_ok=True)
-    with open(args.out, "w", encoding="utf-8") as f:
-        json.dump(
-            dict(
-                benchmark="vertices",
-                seed=args.seed,
-                cap=args.cap,
-                corral=corral.__version__,
-                scipy=scipy.__version__,
-                backends=corral.backends(),
-                python=platform.python_version(),
-                machine=platform.machine(),
-                processor=platform.processor(),
-                cores=os.cpu_count(),
-                date=time.strftime("%Y-%m-%d %H:%M:%S"),
-                vertices=rows,
-                hulls=hull_rows,
-                cyclic=cyc_rows,
-            ),
-            f,
-            indent=1,
-        )
-    print(f"\nwritten: {args.out}")
+    write_results(
+        args.out,
+        "vertices",
+        seed=args.seed,
+        cap=args.cap,
+        vertices=rows,
+        hulls=hull_rows,
+        cyclic=cyc_rows,
+    )
 
 
 if __name__ == "__main__":

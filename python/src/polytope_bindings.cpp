@@ -1,8 +1,6 @@
-// Bindings of Polytope: conversion, GIL release around LP work, progress callbacks that take
-// the GIL only to call Python (and check for Ctrl-C), and nothing algorithmic.
-
-#include <chrono>
-#include <memory>
+// Bindings of Polytope: conversion, GIL release around LP work (make_options / run_released in
+// bindings.hpp: progress callbacks take the GIL only to call Python and check for Ctrl-C), and
+// nothing algorithmic.
 
 #include "bindings.hpp"
 

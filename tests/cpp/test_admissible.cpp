@@ -20,6 +20,13 @@ namespace {
 
 Matrix scalar(double a) { return Matrix::Constant(1, 1, a); }
 
+// rho times the rotation by th (radians).
+Matrix damped_rotation(double rho, double th) {
+  Matrix A(2, 2);
+  A << rho * std::cos(th), -rho * std::sin(th), rho * std::sin(th), rho * std::cos(th);
+  return A;
+}
+
 Polytope interval(double lo, double hi) {
   Vector l(1), h(1);
   l << lo;
@@ -120,9 +127,7 @@ TEST_CASE("admissible: a lightly damped rotation needs many steps and converges"
   // A = 0.98 R(0.3) on the square [-1, 1]^2: the set is the square cut by rotated, shrunk
   // copies. Checked from the definition: every vertex of the set stays in X for 400 steps
   // and is mapped into the set (A S ⊆ S, enough at the vertices of a convex set).
-  const double th = 0.3, rho = 0.98;
-  Matrix A(2, 2);
-  A << rho * std::cos(th), -rho * std::sin(th), rho * std::sin(th), rho * std::cos(th);
+  const Matrix A = damped_rotation(0.98, 0.3);
   const Polytope X = Polytope::box(-Vector::Ones(2), Vector::Ones(2));
   const corral::AdmissibleResult r = corral::max_admissible_set(A, X);
   REQUIRE(r.converged);
@@ -168,9 +173,7 @@ TEST_CASE("admissible: closed loop with state, input and mixed limits") {
 TEST_CASE("admissible: certificates verify, and the constraint set itself fails when t* > 0") {
   // The rotation of the test above: its set carries certificates of A S ⊆ S and S ⊆ X that
   // check without LPs; X itself (t* > 0, so X is not invariant) fails verification.
-  const double th = 0.3, rho = 0.98;
-  Matrix A(2, 2);
-  A << rho * std::cos(th), -rho * std::sin(th), rho * std::sin(th), rho * std::cos(th);
+  const Matrix A = damped_rotation(0.98, 0.3);
   const Polytope X = Polytope::box(-Vector::Ones(2), Vector::Ones(2));
   const corral::AdmissibleResult r = corral::max_admissible_set(A, X);
   REQUIRE(r.converged);

@@ -24,6 +24,7 @@
 /// and certificates of invariance and admissibility (certificate.hpp) come with it.
 
 #include <corral/certificate.hpp>
+#include <corral/detail/validate.hpp>
 #include <corral/errors.hpp>
 #include <corral/lp/solver.hpp>
 #include <corral/options.hpp>
@@ -37,6 +38,7 @@
 #include <cmath>
 #include <limits>
 #include <string>
+#include <vector>
 
 namespace corral {
 
@@ -108,11 +110,8 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
                                            const AdmissibleOptions& opt = {}) {
   const auto t0 = std::chrono::steady_clock::now();
   const Index n = X.dim();
-  if (A.rows() != n || A.cols() != n)
-    detail::invalid("A", "must be " + std::to_string(n) + " x " + std::to_string(n) +
-                             " (the dimension of X), got " + std::to_string(A.rows()) + " x " +
-                             std::to_string(A.cols()));
-  if (!A.allFinite()) detail::invalid("A", "contains NaN or inf");
+  detail::require_square(A, n, "A");
+  detail::require_finite(A, "A");
   if (opt.max_steps < 1) detail::invalid("max_steps", "must be at least 1");
   const double tol = opt.tolerance();
   AdmissibleResult out;
@@ -120,7 +119,7 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
     out.set = std::move(P);
     out.steps = steps;
     out.converged = converged;
-    out.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    out.seconds = detail::seconds_since(t0);
     return out;
   };
   if (X.is_trivially_empty()) return finish(Polytope::empty(n), 0, true);
@@ -195,17 +194,8 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
   bool converged = false;
   for (int k = 1; k <= opt.max_steps; ++k) {
     steps_done = k;
-    if (opt.progress) {
-      Progress p;
-      p.stage = "admissible set";
-      p.done = k;
-      p.total = opt.max_steps;
-      p.lp_solves = out.lp_solves;
-      if (!opt.progress(p)) throw CancelledError();
-    }
-    const Matrix cand = frontier * Az;
-    Matrix next(0, r);
-    Vector next_rhs(0);
+    Matrix cand = frontier * Az;
+    std::vector<Index> added;  // rows of cand (normalised in place) that cut the set
     for (Index i = 0; i < cand.rows(); ++i) {
       const double norm = cand.row(i).norm();
       const double rhs = frontier_rhs(i);
@@ -213,7 +203,8 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
         if (rhs < -abs_tol) return finish(Polytope::empty(n), k, true);
         continue;
       }
-      if (opt.progress) {  // between LP solves (cheap: the Python wrapper rate-limits)
+      if (opt.progress) {  // between LP solves (cheap: the Python wrapper rate-limits); this
+                           // is also where Ctrl-C is noticed
         Progress p;
         p.stage = "admissible set";
         p.done = k;
@@ -221,8 +212,10 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
         p.lp_solves = out.lp_solves;
         if (!opt.progress(p)) throw CancelledError();
       }
-      const Vector row = cand.row(i).transpose() / norm;
-      const double b = rhs / norm;
+      cand.row(i) /= norm;
+      frontier_rhs(i) = rhs / norm;
+      const Vector row = cand.row(i).transpose();
+      const double b = frontier_rhs(i);
       lp->set_objective(row);
       lp::SolveOptions so;
       so.threshold = b + abs_tol;
@@ -234,15 +227,18 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
         throw SolverError("max_admissible_set: LP failure at step " + std::to_string(k));
       if (!res.exceeds(b + abs_tol)) continue;  // redundant: never propagated again
       lp->add_rows(row.transpose(), Vector::Constant(1, b));
-      next.conservativeResize(next.rows() + 1, r);
-      next.row(next.rows() - 1) = row.transpose();
-      next_rhs.conservativeResize(next_rhs.size() + 1);
-      next_rhs(next_rhs.size() - 1) = b;
+      added.push_back(i);
     }
-    if (next.rows() == 0) {
+    if (added.empty()) {
       converged = true;
       steps_done = k - 1;
       break;
+    }
+    Matrix next(static_cast<Index>(added.size()), r);
+    Vector next_rhs(next.rows());
+    for (Index q = 0; q < next.rows(); ++q) {
+      next.row(q) = cand.row(added[static_cast<size_t>(q)]);
+      next_rhs(q) = frontier_rhs(added[static_cast<size_t>(q)]);
     }
     kept.conservativeResize(kept.rows() + next.rows(), r);
     kept.bottomRows(next.rows()) = next;
@@ -286,9 +282,8 @@ inline AdmissibleResult closed_loop_admissible_set(const Matrix& A, const Matrix
                                                    const Polytope& U, const Polytope& mixed,
                                                    const AdmissibleOptions& opt = {}) {
   const Index n = A.rows();
-  if (n < 1 || A.cols() != n)
-    detail::invalid("A", "must be square with at least one row, got " + std::to_string(A.rows()) +
-                             " x " + std::to_string(A.cols()));
+  if (n < 1) detail::invalid("A", "must have at least one row");
+  detail::require_square(A, n, "A");
   if (B.rows() != n || B.cols() < 1)
     detail::invalid("B", "must have " + std::to_string(n) + " rows and at least one column");
   const Index m = B.cols();
@@ -296,9 +291,9 @@ inline AdmissibleResult closed_loop_admissible_set(const Matrix& A, const Matrix
     detail::invalid("K", "must be " + std::to_string(m) + " x " + std::to_string(n) +
                              " (u = -K x), got " + std::to_string(K.rows()) + " x " +
                              std::to_string(K.cols()));
-  if (!A.allFinite()) detail::invalid("A", "contains NaN or inf");
-  if (!B.allFinite()) detail::invalid("B", "contains NaN or inf");
-  if (!K.allFinite()) detail::invalid("K", "contains NaN or inf");
+  detail::require_finite(A, "A");
+  detail::require_finite(B, "B");
+  detail::require_finite(K, "K");
   if (X.dim() != n) detail::invalid("X", "must have dimension " + std::to_string(n));
   if (U.dim() != m) detail::invalid("U", "must have dimension " + std::to_string(m));
   if (mixed.dim() != n + m)

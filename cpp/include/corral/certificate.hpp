@@ -11,6 +11,7 @@
 /// (relative to |c| + Σ λ_i) and the margin; the worst margin is reported beside it. Rows of
 /// these sets are often exactly tight under A, so a margin of the order of 1e-16 is normal.
 
+#include <corral/detail/validate.hpp>
 #include <corral/errors.hpp>
 #include <corral/lp/solver.hpp>
 #include <corral/options.hpp>
@@ -153,9 +154,8 @@ inline InvarianceReport verify_invariance(const Matrix& A, const Polytope& S,
                                           const Certificate* certificate = nullptr,
                                           const Options& opt = {}) {
   const Index n = S.dim();
-  if (A.rows() != n || A.cols() != n)
-    detail::invalid("A", "must be " + std::to_string(n) + " x " + std::to_string(n));
-  if (!A.allFinite()) detail::invalid("A", "contains NaN or inf");
+  detail::require_square(A, n, "A");
+  detail::require_finite(A, "A");
   InvarianceReport rep;
   if (S.is_trivially_empty()) {
     rep.holds = true;

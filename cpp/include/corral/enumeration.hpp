@@ -172,10 +172,6 @@ inline QhullEnumeration qhull_vertices(const Matrix& A, const Vector& b, const V
   return out;
 }
 
-inline double seconds_since(std::chrono::steady_clock::time_point t0) {
-  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
-}
-
 }  // namespace detail
 
 inline Matrix Polytope::vertices(bool exact, Info* info) const {

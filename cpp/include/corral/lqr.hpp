@@ -24,6 +24,7 @@
 /// Riccati residual small relative to |P|, and A - B K strictly stable; otherwise the pair is
 /// reported as not stabilisable (or the weights as unsuitable). Cost: O(n³) per step.
 
+#include <corral/detail/validate.hpp>
 #include <corral/errors.hpp>
 #include <corral/types.hpp>
 
@@ -33,7 +34,6 @@
 #include <cmath>
 #include <limits>
 #include <string>
-#include <utility>
 
 namespace corral {
 
@@ -53,11 +53,6 @@ struct LqrOptions {
 };
 
 namespace detail {
-inline void require_square(const Matrix& M, Index n, const char* name) {
-  if (M.rows() != n || M.cols() != n)
-    invalid(name, "must be " + std::to_string(n) + " x " + std::to_string(n) + ", got " +
-                      std::to_string(M.rows()) + " x " + std::to_string(M.cols()));
-}
 inline void require_symmetric(const Matrix& M, const char* name) {
   const double scale = std::max(1.0, M.cwiseAbs().maxCoeff());
   if ((M - M.transpose()).cwiseAbs().maxCoeff() > 1e-10 * scale) invalid(name, "must be symmetric");
@@ -81,9 +76,10 @@ inline LqrResult lqr(const Matrix& A, const Matrix& B, const Matrix& Q, const Ma
   const Index m = B.cols();
   detail::require_square(Q, n, "Q");
   detail::require_square(R, m, "R");
-  for (const auto& [M, name] :
-       {std::pair<const Matrix*, const char*>{&A, "A"}, {&B, "B"}, {&Q, "Q"}, {&R, "R"}})
-    if (!M->allFinite()) detail::invalid(name, "contains NaN or inf");
+  detail::require_finite(A, "A");
+  detail::require_finite(B, "B");
+  detail::require_finite(Q, "Q");
+  detail::require_finite(R, "R");
   detail::require_symmetric(Q, "Q");
   detail::require_symmetric(R, "R");
   const Eigen::MatrixXd Qs = 0.5 * (Q + Q.transpose()), Rs = 0.5 * (R + R.transpose());

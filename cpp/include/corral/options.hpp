@@ -4,6 +4,7 @@
 
 #include <corral/defaults.hpp>
 
+#include <chrono>
 #include <functional>
 #include <string>
 
@@ -48,6 +49,13 @@ struct Info {
     ++lp_solves;
   }
 };
+
+namespace detail {
+/// Wall-clock seconds since t0 (for Info::seconds and the results' `seconds`).
+inline double seconds_since(std::chrono::steady_clock::time_point t0) {
+  return std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+}
+}  // namespace detail
 
 /// Thrown when a progress callback returns false.
 class CancelledError : public CorralError {

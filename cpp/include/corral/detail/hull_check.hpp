@@ -93,10 +93,9 @@ inline bool operator!=(const RowSets::View& a, const RowSets::View& b) { return 
 /// checks.
 struct PolarCheck {
   bool ok = false;
-  std::string failure;         ///< the first check that failed, when !ok
-  Matrix objects;              ///< one vertex y per row
-  RowSets tight;               ///< rows tight at each vertex, ascending
-  long groups_of_several = 0;  ///< vertices recomputed from several qhull facets
+  std::string failure;  ///< the first check that failed, when !ok
+  Matrix objects;       ///< one vertex y per row
+  RowSets tight;        ///< rows tight at each vertex, ascending
 };
 
 namespace hull_check {
@@ -633,7 +632,6 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     group_rows.clear();
     group_rows.items.reserve(facet_rows.items.size());
     out.objects.resize(G, n);
-    out.groups_of_several = 0;
     for (Index g = 0; g < G; ++g) {
       if (count[static_cast<size_t>(g)] == 1) {
         group_rows.push(facet_rows[static_cast<size_t>(first_facet[static_cast<size_t>(g)])]);
@@ -649,7 +647,6 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       std::sort(gather.begin(), gather.end());
       gather.erase(std::unique(gather.begin(), gather.end()), gather.end());
       group_rows.push(gather);
-      ++out.groups_of_several;
       if (!solver.solve(U, u, group_rows[static_cast<size_t>(g)], tol, out.objects.row(g)))
         return fail("the rows of a group of facets have rank < n");
     }

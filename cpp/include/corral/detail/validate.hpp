@@ -32,4 +32,11 @@ inline void require_length(const Vector& v, Index n, const std::string& name,
                       " (" + what + ")");
 }
 
+/// Throws unless `M` is n x n.
+inline void require_square(const Matrix& M, Index n, const std::string& name) {
+  if (M.rows() != n || M.cols() != n)
+    invalid(name, "must be " + std::to_string(n) + " x " + std::to_string(n) + ", got " +
+                      std::to_string(M.rows()) + " x " + std::to_string(M.cols()));
+}
+
 }  // namespace corral::detail
