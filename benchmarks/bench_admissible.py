@@ -11,6 +11,8 @@ angles uniform in [0.2, 0.8] scaled by radii uniform in [0.95, 0.99] (a 1x1 bloc
 radius range when n is odd); X = [-1, 1]^n. A second family closes a random plant with two
 inputs under its LQR gain (Q = I, R = I) with box states [-1, 1]^n and inputs [-1, 1]^2.
 Targets (reported, never asserted): >= 50x the scipy loop at n = 12; n = 32 within 60 s.
+Also reported: the time of verify_invariance on the result in floating point and with
+exact=True (rational worst margin), for n up to --exact-up-to.
 
 Usage: python3 benchmarks/bench_admissible.py [--n 2,4,8,12,16,24,32] [--seed S] [--cap SECONDS]
 """
@@ -97,6 +99,7 @@ def main():
     ap.add_argument(
         "--baseline-up-to", type=int, default=16, help="largest n at which the scipy loop runs"
     )
+    ap.add_argument("--exact-up-to", type=int, default=24, help="largest n for the exact re-check")
     ap.add_argument(
         "--out", default=os.path.join(os.path.dirname(__file__), "results", "admissible.json")
     )
@@ -111,7 +114,8 @@ def main():
         print(f"\n{family}")
         print(
             f"{'n':>3} {'t*':>5} {'rows':>6} {'LPs':>7} {'fb':>3} {'corral s':>9} "
-            f"{'scipy s':>9} {'scipy t*':>8} {'rows':>5} {'ratio':>8}"
+            f"{'scipy s':>9} {'scipy t*':>8} {'rows':>5} {'ratio':>8} {'verify s':>9} "
+            f"{'exact s':>8} {'exact margin':>13}"
         )
         for n in ns:
             rng = np.random.default_rng(args.seed * 1000 + n)
@@ -146,9 +150,22 @@ def main():
             else:
                 b_txt = f"{base[0]:9.2f} {base[1]:>8} {base[2]:>5}"
                 ratio = f"{base[0] / sec:8.1f}"
+            t0 = time.perf_counter()
+            corral.verify_invariance(Acl, r.set)
+            v_sec = time.perf_counter() - t0
+            ex_sec, ex_margin = None, None
+            if n <= args.exact_up_to:
+                t0 = time.perf_counter()
+                ex = corral.verify_invariance(Acl, r.set, exact=True)
+                ex_sec = time.perf_counter() - t0
+                ex_margin = float(ex.worst_margin_exact)
+            ex_txt = (
+                f"{ex_sec:8.2f} {ex_margin:13.2e}" if ex_sec is not None else f"{'':>8} {'':>13}"
+            )
             print(
                 f"{n:>3} {r.steps:>5} {r.set.num_rows:>6} {r.lp_solves:>7} {r.fallbacks:>3} "
-                f"{sec:9.3f} {b_txt} {ratio}" + ("" if r.converged else "  NOT CONVERGED")
+                f"{sec:9.3f} {b_txt} {ratio} {v_sec:9.3f} {ex_txt}"
+                + ("" if r.converged else "  NOT CONVERGED")
             )
             out.append(
                 dict(
@@ -162,6 +179,9 @@ def main():
                     converged=r.converged,
                     certificate_holds=r.certificate.holds,
                     worst_margin=r.worst_margin,
+                    verify_seconds=v_sec,
+                    exact_verify_seconds=ex_sec,
+                    exact_worst_margin=ex_margin,
                     scipy=None
                     if base is None
                     else dict(seconds=base[0], steps=base[1], rows=base[2], lps=base[3]),

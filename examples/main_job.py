@@ -103,6 +103,13 @@ def main():
         f"{'holds' if cert.admissibility.holds else 'FAILS'} ({len(cert.admissibility.rows)} "
         f"rows); worst margin {result.worst_margin:.1e} (rounding level: tight rows are normal)"
     )
+    exact = corral.verify_invariance(A - B @ gain.K, S, certificate=cert.invariance, exact=True)
+    margin = float(exact.worst_margin_exact)
+    print(
+        f"exact re-check of A S ⊆ S in rationals: worst margin {margin:.2e}"
+        f" ({'>= 0 exactly' if exact.holds_exactly else 'below 0 at rounding level'}; "
+        f"{'holds' if exact.holds else 'FAILS'} at tolerance {exact.tolerance:.0e})"
+    )
     lo, hi = S.bounding_box()
     names = ["position [m]", "speed [m/s]", "stretch [mm]", "motor speed [m/s]"]
     print("reachable range inside the set:")

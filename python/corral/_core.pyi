@@ -1,5 +1,6 @@
 """Type stubs of the compiled core corral._core."""
 
+from fractions import Fraction
 from typing import Any, Callable, Literal
 
 import numpy as np
@@ -83,15 +84,23 @@ class AdmissibleCertificate:
 class InvarianceReport:
     holds: bool
     worst_margin: float
+    worst_row: int
+    tolerance: float
     certificate: Certificate
+    exact: bool
+    worst_margin_exact: Fraction | None
+    holds_exactly: bool
+    exact_lps: int
 
 def verify_invariance(
     A: npt.ArrayLike,
     S: Polytope,
     *,
     certificate: Certificate | None = None,
+    exact: bool = False,
     backend: str | None = None,
     tol: float | None = None,
+    progress: Callable[[dict[str, Any]], bool | None] | None = None,
 ) -> InvarianceReport: ...
 
 class AdmissibleResult:

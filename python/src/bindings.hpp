@@ -87,6 +87,12 @@ inline double tol_arg(py::handle obj) {
 }
 
 /// A vector as a new numpy array, or None when empty.
+/// An exact rational as a Python fractions.Fraction.
+inline py::object to_fraction(const Rational& q) {
+  static py::object Fraction = py::module_::import("fractions").attr("Fraction");
+  return Fraction(py::int_(py::str(q.numerator)), py::int_(py::str(q.denominator)));
+}
+
 inline py::object vector_or_none(const Vector& v) {
   if (v.size() == 0) return py::none();
   return py::cast(v);

@@ -71,12 +71,26 @@ void register_control(py::module_& m) {
       .def_readonly("admissibility", &AdmissibleCertificate::admissibility)
       .def_readonly("holds", &AdmissibleCertificate::holds);
   py::class_<InvarianceReport>(m, "InvarianceReport", "Result of verify_invariance().")
-      .def_readonly("holds", &InvarianceReport::holds)
+      .def_readonly("holds", &InvarianceReport::holds,
+                    "Every row holds within `tolerance` (judged on the exact margin when exact).")
       .def_readonly("worst_margin", &InvarianceReport::worst_margin)
-      .def_readonly("certificate", &InvarianceReport::certificate);
+      .def_readonly("worst_row", &InvarianceReport::worst_row)
+      .def_readonly("tolerance", &InvarianceReport::tolerance)
+      .def_readonly("certificate", &InvarianceReport::certificate)
+      .def_readonly("exact", &InvarianceReport::exact)
+      .def_property_readonly(
+          "worst_margin_exact",
+          [](const InvarianceReport& r) -> py::object {
+            return r.worst_margin_exact ? to_fraction(*r.worst_margin_exact) : py::none();
+          },
+          "The exact worst margin as a fractions.Fraction (None unless exact and finite).")
+      .def_readonly("holds_exactly", &InvarianceReport::holds_exactly,
+                    "exact, and every margin >= 0 with no tolerance.")
+      .def_readonly("exact_lps", &InvarianceReport::exact_lps);
   m.def(
       "verify_invariance",
-      [](py::object A, py::object S, py::object certificate, py::object backend, py::object tol) {
+      [](py::object A, py::object S, py::object certificate, bool exact, py::object backend,
+         py::object tol, py::object progress) {
         const Matrix Am = to_matrix(A, "A");
         if (!py::isinstance<Polytope>(S)) corral::detail::invalid("S", "must be a Polytope");
         const Polytope Sp = S.cast<Polytope>();
@@ -88,13 +102,15 @@ void register_control(py::module_& m) {
           held = certificate.cast<Certificate>();
           given = &held;
         }
-        CallOptions c = make_options(backend, tol, py::none());
-        return run_released(c, [&] { return verify_invariance(Am, Sp, given, c.options); });
+        CallOptions c = make_options(backend, tol, progress);
+        return run_released(c, [&] { return verify_invariance(Am, Sp, given, c.options, exact); });
       },
       py::arg("A"), py::arg("S"), py::kw_only(), py::arg("certificate") = py::none(),
-      py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+      py::arg("exact") = false, py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+      py::arg("progress") = py::none(),
       "Checks A S <= S for S = {F x <= t}: with a certificate, checks it without LPs; otherwise\n"
-      "computes one (one LP per row). Returns .holds, .worst_margin, .certificate.");
+      "computes one (one LP per row). exact=True also computes the worst margin exactly in\n"
+      "rationals (.worst_margin_exact, .holds_exactly) and judges .holds on it.");
   py::class_<AdmissibleResult>(m, "AdmissibleResult", "Result of max_admissible_set().")
       .def_readonly("set", &AdmissibleResult::set, "The set (irredundant when converged).")
       .def_readonly("steps", &AdmissibleResult::steps,

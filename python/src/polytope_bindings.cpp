@@ -19,14 +19,11 @@ py::dict info_dict(const Info& info) {
 }
 
 py::object rational_matrix(const RationalMatrix& R) {
-  py::module_ fractions = py::module_::import("fractions");
-  py::object Fraction = fractions.attr("Fraction");
   py::list rows;
   for (Index i = 0; i < R.rows; ++i) {
     py::list row;
     for (Index j = 0; j < R.cols; ++j) {
-      const Rational& q = R(i, j);
-      row.append(Fraction(py::int_(py::str(q.numerator)), py::int_(py::str(q.denominator))));
+      row.append(to_fraction(R(i, j)));
     }
     rows.append(row);
   }

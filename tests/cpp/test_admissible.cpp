@@ -197,3 +197,36 @@ TEST_CASE("admissible: certificates verify, and the constraint set itself fails 
   CHECK_FALSE(rx.holds);
   CHECK(rx.worst_margin < -0.01);
 }
+
+TEST_CASE("verify_invariance exact: margins in rationals, from the definition") {
+  // S = [-1, 1]^2 and A = diag(1 + 2^-50, 1/2): the row x_1 <= 1 has max (1 + 2^-50) x_1 =
+  // 1 + 2^-50 on S (support function of a box), so its margin is -2^-50 exactly: within the
+  // tolerance (holds) but not exactly (holds_exactly), and never rounded to zero.
+  const Polytope S = Polytope::box(-Vector::Ones(2), Vector::Ones(2));
+  Matrix A = Matrix::Zero(2, 2);
+  A(0, 0) = 1.0 + std::ldexp(1.0, -50);
+  A(1, 1) = 0.5;
+  const corral::InvarianceReport rep = corral::verify_invariance(A, S, nullptr, {}, true);
+  REQUIRE(rep.worst_margin_exact.has_value());
+  CHECK(rep.worst_margin_exact->numerator == "-1");
+  CHECK(rep.worst_margin_exact->denominator == "1125899906842624");  // 2^50
+  CHECK(rep.worst_margin == -std::ldexp(1.0, -50));
+  CHECK(rep.holds);
+  CHECK_FALSE(rep.holds_exactly);
+  // A = diag(1, 1/2): margin exactly 0.
+  A(0, 0) = 1.0;
+  const corral::InvarianceReport zero = corral::verify_invariance(A, S, nullptr, {}, true);
+  REQUIRE(zero.worst_margin_exact.has_value());
+  CHECK(zero.worst_margin_exact->numerator == "0");
+  CHECK(zero.holds_exactly);
+  // A maximal admissible set: its stored certificate re-checked, margins exact and tiny.
+  const Matrix R = damped_rotation(0.98, 0.3);
+  const corral::AdmissibleResult r = corral::max_admissible_set(R, S);
+  const corral::InvarianceReport ex =
+      corral::verify_invariance(R, r.set, &r.certificate.invariance, {}, true);
+  REQUIRE(ex.worst_margin_exact.has_value());
+  CHECK(ex.holds);
+  CHECK(std::abs(ex.worst_margin) < 1e-12);
+  CHECK(ex.worst_row >= 0);
+  CHECK(ex.worst_row < r.set.num_rows());
+}

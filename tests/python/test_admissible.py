@@ -124,6 +124,10 @@ def test_matches_independent_loop(n, radii, seed):
     # A stored certificate re-checks without LPs.
     again = corral.verify_invariance(A, r.set, certificate=r.certificate.invariance)
     assert again.holds and again.certificate.lp_solves == 0
+    # Exact margins (compared with pycddlib's rational LP in test_exact_margins.py) are
+    # within rounding of zero, and judged to hold.
+    ex = corral.verify_invariance(A, r.set, certificate=r.certificate.invariance, exact=True)
+    assert ex.holds and abs(ex.worst_margin_exact) < 1e-12
     assert r.conditions.observable_spectral_radius == pytest.approx(
         np.abs(np.linalg.eigvals(A)).max()
     )

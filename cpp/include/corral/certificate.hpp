@@ -11,6 +11,7 @@
 /// (relative to |c| + Σ λ_i) and the margin; the worst margin is reported beside it. Rows of
 /// these sets are often exactly tight under A, so a margin of the order of 1e-16 is normal.
 
+#include <corral/detail/exact.hpp>
 #include <corral/detail/validate.hpp>
 #include <corral/errors.hpp>
 #include <corral/lp/solver.hpp>
@@ -19,6 +20,7 @@
 
 #include <cmath>
 #include <limits>
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -141,24 +143,47 @@ inline Certificate certify_rows(const Polytope& S, const Matrix& C, const Vector
 
 /// Report of verify_invariance(): the certificate of A S ⊆ S and its verdict.
 struct InvarianceReport {
-  bool holds = false;         ///< every row certified within the tolerance
-  double worst_margin = 0.0;  ///< min over rows of t_i - λᵀ t
-  Certificate certificate;    ///< one λ per row of S
+  /// Every row holds within the tolerance: with `exact`, judged on the exact worst margin
+  /// (>= -tolerance); otherwise on the floating-point certificate (residual and margin).
+  bool holds = false;
+  double worst_margin = 0.0;  ///< min over rows of t_i - max{F_i A x : x in S} (a double)
+  Index worst_row = -1;       ///< row of S with the worst margin (-1 when none)
+  double tolerance = 0.0;     ///< absolute tolerance of `holds`: tol * max(1, max |t|)
+  Certificate certificate;    ///< one λ per row of S (floating point)
+  /// Exact check (exact=true): the doubles of A and S taken at their exact values.
+  bool exact = false;
+  /// The exact worst margin; empty unless `exact` and the margin is finite (an unbounded row
+  /// gives -inf, an empty S +inf, both in worst_margin).
+  std::optional<Rational> worst_margin_exact;
+  /// `exact` and every margin >= 0 exactly: A S ⊆ S with no tolerance at all.
+  bool holds_exactly = false;
+  long exact_lps = 0;  ///< rows whose exact margin needed a rational LP (exact only)
 };
 
 /// Checks A S ⊆ S for S = {F x <= t}: with `certificate` given, only checks it (no LP);
 /// otherwise computes one (one LP per row). An empty S is invariant (holds, margin +inf).
+///
+/// With `exact`, the worst margin is also computed exactly in rationals (detail/exact.hpp:
+/// exact solves on each row's support, signs of the multipliers, the smallest bound confirmed
+/// by an exact vertex, cddlib's rational LP where a support fails); `holds` is then judged on
+/// that exact margin, and `holds_exactly` says whether it is >= 0 with no tolerance. Rows of
+/// admissible sets are often exactly tight under A, so an exact margin of the order of 1e-16
+/// (either sign) is normal: it is reported as it is, never rounded to zero. Exact checks cost
+/// one exact solve of at most n x n per row plus an LP for the worst row; a single rational LP
+/// cannot be interrupted.
 /// Throws InvalidInputError naming the argument for a wrong size of A or a certificate of
 /// the wrong length.
 inline InvarianceReport verify_invariance(const Matrix& A, const Polytope& S,
                                           const Certificate* certificate = nullptr,
-                                          const Options& opt = {}) {
+                                          const Options& opt = {}, bool exact = false) {
   const Index n = S.dim();
   detail::require_square(A, n, "A");
   detail::require_finite(A, "A");
   InvarianceReport rep;
+  rep.exact = exact;
   if (S.is_trivially_empty()) {
     rep.holds = true;
+    rep.holds_exactly = exact;
     rep.worst_margin = std::numeric_limits<double>::infinity();
     return rep;
   }
@@ -175,6 +200,29 @@ inline InvarianceReport verify_invariance(const Matrix& A, const Polytope& S,
   }
   rep.holds = rep.certificate.holds;
   rep.worst_margin = rep.certificate.worst_margin;
+  rep.worst_row = rep.certificate.worst_row;
+  rep.tolerance = rep.certificate.tolerance;
+  if (!exact) return rep;
+
+  std::vector<std::vector<Index>> supports;
+  supports.reserve(rep.certificate.rows.size());
+  for (const RowCertificate& rc : rep.certificate.rows) supports.push_back(rc.rows);
+  const detail::ExactWorstMargin w =
+      detail::exact_worst_margin(S.A(), S.b(), S.A(), &A, S.b(), supports, -rep.tolerance, opt);
+  rep.exact_lps = w.exact_lps;
+  rep.worst_row = w.row;
+  using St = detail::ExactWorstMargin::Status;
+  switch (w.status) {
+    case St::optimal:
+      rep.worst_margin_exact = w.margin;
+      rep.worst_margin = w.margin.value;
+      break;
+    case St::unbounded: rep.worst_margin = -std::numeric_limits<double>::infinity(); break;
+    case St::empty:
+    case St::no_rows: rep.worst_margin = std::numeric_limits<double>::infinity(); break;
+  }
+  rep.holds_exactly = w.nonnegative;
+  rep.holds = w.meets_threshold;
   return rep;
 }
 

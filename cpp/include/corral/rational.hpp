@@ -13,7 +13,7 @@ namespace corral {
 struct Rational {
   std::string numerator;
   std::string denominator;
-  double value = 0.0;  ///< nearest double
+  double value = 0.0;  ///< a double within one unit in the last place (rounded toward zero)
 };
 
 /// Row-major matrix of exact rationals.

@@ -7,6 +7,9 @@
 //   GIL before taking it, and never call back into Python while holding it).
 
 #include <mutex>
+#include <string>
+
+#include <corral/rational.hpp>
 
 #include <gmp.h>
 extern "C" {
@@ -27,6 +30,21 @@ inline std::unique_lock<std::mutex> cdd_lock() {
     ddf_set_global_constants();
   });
   return lock;
+}
+
+/// Exact value of q as decimal strings, with a double (mpq_get_d: rounded toward zero).
+inline Rational to_rational(const mpq_t q) {
+  Rational r;
+  char* num = mpz_get_str(nullptr, 10, mpq_numref(q));
+  char* den = mpz_get_str(nullptr, 10, mpq_denref(q));
+  r.numerator = num;
+  r.denominator = den;
+  void (*freefunc)(void*, size_t);
+  mp_get_memory_functions(nullptr, nullptr, &freefunc);
+  freefunc(num, std::char_traits<char>::length(num) + 1);
+  freefunc(den, std::char_traits<char>::length(den) + 1);
+  r.value = mpq_get_d(q);
+  return r;
 }
 
 // The two cddlib number types have parallel APIs with prefixes dd_ (GMP rational) and ddf_

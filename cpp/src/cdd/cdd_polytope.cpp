@@ -26,20 +26,6 @@ typename T::MatrixPtr h_matrix(const Matrix& A, const Vector& b) {
   return M;
 }
 
-Rational to_rational(const mpq_t q) {
-  Rational r;
-  char* num = mpz_get_str(nullptr, 10, mpq_numref(q));
-  char* den = mpz_get_str(nullptr, 10, mpq_denref(q));
-  r.numerator = num;
-  r.denominator = den;
-  void (*freefunc)(void*, size_t);
-  mp_get_memory_functions(nullptr, nullptr, &freefunc);
-  freefunc(num, std::char_traits<char>::length(num) + 1);
-  freefunc(den, std::char_traits<char>::length(den) + 1);
-  r.value = mpq_get_d(q);
-  return r;
-}
-
 template <class T>
 CddGenerators generators(const Matrix& A, const Vector& b, bool rationals) {
   const long n = static_cast<long>(A.cols());
