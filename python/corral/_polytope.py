@@ -125,6 +125,29 @@ def _from_vertices(V, *, exact: bool = False, return_info: bool = False):
     return (P, _info(info)) if return_info else P
 
 
+def _project(
+    self: Polytope,
+    dims,
+    method: str = "auto",
+    *,
+    backend=None,
+    tol=None,
+    progress=None,
+    return_info: bool = False,
+):
+    """Projection onto the coordinates ``dims`` (kept in that order): {y : (y, w) in the set}.
+    method: "fourier-motzkin" (elimination with redundancy removal after each coordinate),
+    "vertices" (hull of the projected vertices; bounded sets) or "auto". Irredundant. With
+    return_info=True also an Info whose ``method`` says which was used."""
+    idx = np.asarray(dims)
+    if idx.ndim != 1 or not np.issubdtype(idx.dtype, np.integer):
+        raise InvalidInputError("dims: must be a 1-D sequence of integer coordinates")
+    P, info = self._project(
+        [int(i) for i in idx], method, backend=backend, tol=tol, progress=progress
+    )
+    return (P, _info(info)) if return_info else P
+
+
 def _repr(self: Polytope) -> str:
     if self.num_rows == 1 and self.b[0] < 0 and not np.any(self.A):
         return f"Polytope(dim={self.dim}, empty)"
@@ -139,4 +162,5 @@ Polytope.redundant_rows = _redundant_rows
 Polytope.affine_hull = _affine_hull
 Polytope.vertices = _vertices
 Polytope.from_vertices = staticmethod(_from_vertices)
+Polytope.project = _project
 Polytope.__repr__ = _repr

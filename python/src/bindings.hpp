@@ -21,6 +21,7 @@ void register_errors(py::module_& m);
 void register_lp(py::module_& m);
 void register_polytope(py::module_& m);
 void register_control(py::module_& m);
+void register_design(py::module_& m);
 
 /// Converts to a float64 numpy array of the given number of dimensions, or throws
 /// InvalidInputError naming the argument.
@@ -87,6 +88,27 @@ inline double tol_arg(py::handle obj) {
 }
 
 /// A vector as a new numpy array, or None when empty.
+/// Info as a dict (the Python side makes it a corral.Info).
+inline py::dict info_dict(const Info& info) {
+  py::dict d;
+  d["lp_solves"] = info.lp_solves;
+  d["mean_lp_rows"] = info.mean_lp_rows;
+  d["seconds"] = info.seconds;
+  d["fallbacks"] = info.fallbacks;
+  d["method"] = info.method;
+  return d;
+}
+
+/// A Polytope argument of dimension `dim`; None is the whole space when `optional`.
+inline Polytope polytope_arg(py::handle obj, Index dim, const char* name, bool optional) {
+  if (obj.is_none()) {
+    if (!optional) detail::invalid(name, "must be a Polytope, got None");
+    return Polytope(dim);
+  }
+  if (!py::isinstance<Polytope>(obj)) detail::invalid(name, "must be a Polytope");
+  return obj.cast<Polytope>();
+}
+
 /// An exact rational as a Python fractions.Fraction.
 inline py::object to_fraction(const Rational& q) {
   static py::object Fraction = py::module_::import("fractions").attr("Fraction");

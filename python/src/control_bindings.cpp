@@ -162,13 +162,8 @@ void register_control(py::module_& m) {
                            py::object progress) {
         const Matrix Am = to_matrix(A, "A"), Bm = to_matrix(B, "B"), Km = to_matrix(K, "K");
         const Index n = Am.rows(), mu = Bm.cols();
-        auto poly = [](py::object P, Index dim, const char* name) {
-          if (P.is_none()) return Polytope(dim);
-          if (!py::isinstance<Polytope>(P)) corral::detail::invalid(name, "must be a Polytope");
-          return P.cast<Polytope>();
-        };
-        const Polytope Xp = poly(X, n, "X"), Up = poly(U, mu, "U"),
-                       Mp = poly(mixed, n + mu, "mixed");
+        const Polytope Xp = polytope_arg(X, n, "X", true), Up = polytope_arg(U, mu, "U", true),
+                       Mp = polytope_arg(mixed, n + mu, "mixed", true);
         const auto co = admissible_options(backend, tol, progress, max_steps);
         const AdmissibleOptions& o = co.second;
         return run_released(co.first,

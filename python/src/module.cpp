@@ -64,4 +64,5 @@ PYBIND11_MODULE(_core, m) {
   corral::python::register_lp(m);
   corral::python::register_polytope(m);
   corral::python::register_control(m);
+  corral::python::register_design(m);
 }

@@ -8,16 +8,6 @@ namespace corral::python {
 
 namespace {
 
-py::dict info_dict(const Info& info) {
-  py::dict d;
-  d["lp_solves"] = info.lp_solves;
-  d["mean_lp_rows"] = info.mean_lp_rows;
-  d["seconds"] = info.seconds;
-  d["fallbacks"] = info.fallbacks;
-  d["method"] = info.method;
-  return d;
-}
-
 py::object rational_matrix(const RationalMatrix& R) {
   py::list rows;
   for (Index i = 0; i < R.rows; ++i) {
@@ -148,6 +138,19 @@ void register_polytope(py::module_& m) {
           },
           py::kw_only(), py::arg("backend") = py::none(), py::arg("tol") = py::none(),
           py::arg("exact") = false, py::arg("progress") = py::none())
+      .def(
+          "_project",
+          [](const Polytope& P, std::vector<Index> dims, const std::string& method,
+             py::object backend, py::object tol, py::object progress) {
+            auto c = make_options(backend, tol, progress);
+            Info info;
+            Polytope out =
+                run_released(c, [&] { return P.project(dims, method, c.options, &info); });
+            return py::make_tuple(out, info_dict(info));
+          },
+          py::arg("dims"), py::arg("method") = "auto", py::kw_only(),
+          py::arg("backend") = py::none(), py::arg("tol") = py::none(),
+          py::arg("progress") = py::none())
       .def(
           "_redundant_rows",
           [](const Polytope& P, py::object backend, py::object tol, bool exact,

@@ -4,7 +4,9 @@
 
 #include <corral/admissible.hpp>
 #include <corral/certificate.hpp>
+#include <corral/controllable.hpp>
 #include <corral/defaults.hpp>
+#include <corral/dual_mode.hpp>
 #include <corral/enumeration.hpp>
 #include <corral/errors.hpp>
 #include <corral/lp/check.hpp>
@@ -13,6 +15,7 @@
 #include <corral/options.hpp>
 #include <corral/polytope.hpp>
 #include <corral/polytope_queries.hpp>
+#include <corral/projection.hpp>
 #include <corral/rational.hpp>
 #include <corral/redundancy.hpp>
 #include <corral/types.hpp>

@@ -246,6 +246,10 @@ class Polytope {
   /// info (may be null) receives method "cdd-exact" and seconds.
   RationalMatrix vertices_exact(Info* info = nullptr) const;
 
+  /// Projection onto the coordinates `dims`, kept in that order (projection.hpp).
+  Polytope project(const std::vector<Index>& dims, const std::string& method = "auto",
+                   const Options& opt = {}, Info* info = nullptr) const;
+
   /// Builds a polytope from already normalised rows and their sources (no re-normalisation).
   static Polytope from_normalized(Matrix A, Vector b, std::vector<Index> source,
                                   Index caller_rows = -1) {
