@@ -140,7 +140,7 @@ def _project(
     "vertices" (hull of the projected vertices; bounded sets) or "auto". Irredundant. With
     return_info=True also an Info whose ``method`` says which was used."""
     idx = np.asarray(dims)
-    if idx.ndim != 1 or not np.issubdtype(idx.dtype, np.integer):
+    if idx.ndim != 1 or (idx.size and not np.issubdtype(idx.dtype, np.integer)):
         raise InvalidInputError("dims: must be a 1-D sequence of integer coordinates")
     P, info = self._project(
         [int(i) for i in idx], method, backend=backend, tol=tol, progress=progress
