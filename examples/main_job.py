@@ -1,4 +1,4 @@
-"""Main job: the certified maximal admissible set of an LQR-controlled belt drive.
+"""Main job: certified sets for the predictive control of a belt drive.
 
 An invented scenario of our own: a carriage pulled along a rail by a motor through a toothed
 belt that stretches a little. The state is
@@ -9,6 +9,12 @@ stretch and motor force. The script prints the set's size, its determinedness in
 work, the time, and whether the certificates (Farkas multipliers for A S ⊆ S and S ⊆ limits)
 check out.
 
+Then the dual-mode predictive controller: u_k = -K x_k + c_k for the first N steps, the LQR law
+after. For a few horizons N it computes the constraints of the online QP in (x, c), its cost
+matrix, and the region of states where the QP is feasible, and draws (PNG, --plot) two 2-D
+projections of those regions with the terminal set inside them and closed-loop trajectories
+under the LQR law from states of the terminal set.
+
 The numbers are made up for the example; the model is a nominal one, and a set computed from
 it certifies that model only.
 """
@@ -16,6 +22,8 @@ it certifies that model only.
 from __future__ import annotations
 
 import argparse
+import os
+import pathlib
 import time
 
 import corral
@@ -65,7 +73,15 @@ def zero_order_hold(Ac, Bc, dt):
 
 def main():
     parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
-    parser.parse_args()
+    parser.add_argument(
+        "--plot",
+        default=str(pathlib.Path(__file__).resolve().parents[1] / "build" / "main_job.png"),
+        help="PNG file for the picture of the regions (default: build/main_job.png)",
+    )
+    parser.add_argument(
+        "--horizons", default="2,5,10", help="comma-separated horizons N (default 2,5,10)"
+    )
+    args = parser.parse_args()
     print(f"corral {corral.__version__}; LP backends in this build: {', '.join(corral.backends())}")
 
     A, B = zero_order_hold(*continuous_model(), SAMPLE)
@@ -128,6 +144,91 @@ def main():
             print(f"  simulated from the outside state: first limit broken at step {k}")
             break
         x = A @ x + B @ u
+
+    horizons = [int(h) for h in args.horizons.split(",")]
+    regions = dual_mode_regions(A, B, gain, Q, R, X, U, horizons)
+    plot_regions(args.plot, A, B, gain, S, regions)
+    print(f"picture: {os.path.relpath(args.plot)}")
+
+
+def dual_mode_regions(A, B, gain, Q, R, X, U, horizons):
+    """The dual-mode regions for the given horizons, with a line each."""
+    print("dual-mode predictive control, u_k = -K x_k + c_k for k < N, the LQR law after:")
+    regions = []
+    for N in horizons:
+        t0 = time.perf_counter()
+        reg = corral.dual_mode_region(A, B, gain.K, X, U, N, Q=Q, R=R)
+        seconds = time.perf_counter() - t0
+        blk = R + B.T @ gain.P @ B
+        diag_ok = np.allclose(reg.H, np.kron(np.eye(N), blk), rtol=1e-8) and np.allclose(
+            reg.H_xc, 0.0, atol=1e-8 * np.abs(reg.H).max()
+        )
+        cert = "holds" if reg.certificate.holds else "FAILS"
+        print(
+            f"  N = {N:2d}: QP {reg.F_c.shape[1]} variables, {reg.augmented.num_rows} irredundant "
+            f"rows (index {reg.steps}); feasible states {reg.state_region.num_rows} rows; "
+            f"{reg.lp_solves} LPs, {seconds * 1e3:.1f} ms; cost block diagonal R + B'PB: "
+            f"{'yes' if diag_ok else 'NO'}; certificate {cert}"
+        )
+        regions.append(reg)
+    return regions
+
+
+def plot_regions(path, A, B, gain, S, regions):
+    """Two projections of the regions (largest horizon first), the terminal set S, and
+    closed-loop trajectories under u = -K x from states of S."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    views = [
+        ((0, 1), ("position error [m]", "carriage speed [m/s]")),
+        ((1, 3), ("carriage speed [m/s]", "motor speed [m/s]")),
+    ]
+    fig, axes = plt.subplots(1, 2, figsize=(11, 4.6))
+    colours = plt.cm.Blues(np.linspace(0.25, 0.7, len(regions)))
+    # Starts: the vertices of S farthest along a few directions, pulled in by 2 %.
+    V = S.vertices()
+    dirs = np.vstack([np.eye(4), -np.eye(4)])
+    starts = 0.98 * V[np.unique(np.argmax(V @ dirs.T, axis=0))]
+    paths = []
+    for x in starts:
+        xs = [x]
+        for _ in range(400):
+            x = A @ x - B @ (gain.K @ x)
+            xs.append(x)
+        paths.append(np.array(xs))
+    for ax, (dims, labels) in zip(axes, views):
+        for reg, col in sorted(zip(regions, colours), key=lambda rc: -rc[0].horizon):
+            draw(ax, reg.state_region.project(list(dims)), col, f"feasible, N = {reg.horizon}")
+        draw(ax, S.project(list(dims)), "#f2a65a", "terminal set (LQR law)")
+        for k, xs in enumerate(paths):
+            ax.plot(
+                xs[:, dims[0]],
+                xs[:, dims[1]],
+                color="#7a3b00",
+                lw=0.8,
+                label="closed loop from the terminal set" if k == 0 else None,
+            )
+        ax.set_xlabel(labels[0])
+        ax.set_ylabel(labels[1])
+        ax.grid(alpha=0.3)
+    handles, labels = axes[0].get_legend_handles_labels()
+    fig.legend(handles, labels, loc="lower center", ncol=len(labels), fontsize=8, frameon=False)
+    fig.suptitle("Belt drive: where the dual-mode controller is feasible (2-D projections)")
+    fig.tight_layout(rect=(0, 0.06, 1, 1))
+    pathlib.Path(path).parent.mkdir(parents=True, exist_ok=True)
+    fig.savefig(path, dpi=110)
+    plt.close(fig)
+
+
+def draw(ax, P, colour, label):
+    """Fills a 2-D polytope (vertices in angular order)."""
+    V = P.vertices()
+    c = V.mean(axis=0)
+    V = V[np.argsort(np.arctan2(V[:, 1] - c[1], V[:, 0] - c[0]))]
+    ax.fill(V[:, 0], V[:, 1], color=colour, alpha=0.9, label=label, ec="k", lw=0.5)
 
 
 if __name__ == "__main__":

@@ -137,6 +137,76 @@ def closed_loop_admissible_set(
     progress: Callable[[dict[str, Any]], bool | None] | None = None,
 ) -> AdmissibleResult: ...
 
+class ControllableResult:
+    set: Polytope
+    sets: list[Polytope]
+    steps: int
+    lp_solves: int
+    fallbacks: int
+    seconds: float
+    certificate: None
+
+def controllable_set(
+    A: npt.ArrayLike,
+    B: npt.ArrayLike,
+    X: Polytope | None,
+    U: Polytope | None,
+    target: Polytope,
+    steps: int,
+    *,
+    mixed: Polytope | None = None,
+    backend: str | None = None,
+    tol: float | None = None,
+    progress: Callable[[dict[str, Any]], bool | None] | None = None,
+) -> ControllableResult: ...
+def _pre_set(
+    A: npt.ArrayLike,
+    B: npt.ArrayLike,
+    C: Polytope,
+    U: Polytope | None = None,
+    *,
+    mixed: Polytope | None = None,
+    backend: str | None = None,
+    tol: float | None = None,
+    progress: Callable[[dict[str, Any]], bool | None] | None = None,
+) -> tuple[Polytope, dict[str, Any]]: ...
+
+class DualModeRegion:
+    augmented: Polytope
+    F_x: npt.NDArray[np.float64]
+    F_c: npt.NDArray[np.float64]
+    t: npt.NDArray[np.float64]
+    H: npt.NDArray[np.float64] | None
+    H_xc: npt.NDArray[np.float64] | None
+    dynamics: npt.NDArray[np.float64]
+    state_region: Polytope
+    terminal_set: Polytope
+    horizon: int
+    steps: int
+    converged: bool
+    lp_solves: int
+    fallbacks: int
+    seconds: float
+    conditions: FiniteDetermination
+    certificate: AdmissibleCertificate
+
+def dual_mode_region(
+    A: npt.ArrayLike,
+    B: npt.ArrayLike,
+    K: npt.ArrayLike,
+    X: Polytope | None,
+    U: Polytope | None,
+    horizon: int,
+    *,
+    Q: npt.ArrayLike | None = None,
+    R: npt.ArrayLike | None = None,
+    mixed: Polytope | None = None,
+    max_steps: int = 1000,
+    backend: str | None = None,
+    tol: float | None = None,
+    progress: Callable[[dict[str, Any]], bool | None] | None = None,
+) -> DualModeRegion: ...
+
 class LqrResult:
     @property
     def K(self) -> npt.NDArray[np.float64]: ...
@@ -220,6 +290,16 @@ class Polytope:
         progress: Callable[[dict[str, Any]], bool | None] | None = None,
         return_info: bool = False,
     ) -> npt.NDArray[np.int64] | tuple[npt.NDArray[np.int64], Info]: ...
+    def project(
+        self,
+        dims: Any,
+        method: Literal["auto", "fourier-motzkin", "vertices"] = "auto",
+        *,
+        backend: str | None = None,
+        tol: float | None = None,
+        progress: Callable[[dict[str, Any]], bool | None] | None = None,
+        return_info: bool = False,
+    ) -> Polytope | tuple[Polytope, Info]: ...
     def affine_hull(
         self, *, backend: str | None = None, tol: float | None = None
     ) -> tuple[npt.NDArray[np.float64], npt.NDArray[np.float64], npt.NDArray[np.int64]]: ...

@@ -138,6 +138,27 @@ def test_unbounded_lower_dimensional_and_empty():
     assert E.project([1]).is_empty()
 
 
+def test_nearly_opposite_rows():
+    """Rows a and -a(1 + 2^-50): their Fourier–Motzkin combination cancels to rounding level
+    and must not become a row of noise with a huge right-hand side (which once made every
+    later tolerance huge and left thousands of rows). A thin, skewed set in 4-D as in a
+    controller's feasible region (reference: scipy ConvexHull of pycddlib's vertices)."""
+    rng = np.random.default_rng(21)
+    a = rng.normal(size=(12, 4)) * np.array([20.0, 1.0, 0.1, 1.0])
+    A = np.vstack([a, -a * (1 + 2.0**-50)])
+    P = corral.Polytope(A, np.ones(24))
+    for dims in ([0, 1], [1, 3], [2]):
+        Q = P.project(dims, "fourier-motzkin")
+        V = cdd_vertices(P)[:, dims]
+        if len(dims) == 1:
+            lo, hi = V.min(), V.max()
+            assert Q.num_rows == 2
+            assert np.allclose(sorted(Q.b / np.abs(Q.A[:, 0])), sorted([hi, -lo]), rtol=1e-7)
+        else:
+            same_as_hull(Q, V)
+        assert np.abs(Q.b).max() < 1e3
+
+
 @settings(max_examples=25, deadline=None)
 @given(
     st.integers(min_value=3, max_value=5),

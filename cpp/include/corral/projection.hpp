@@ -46,7 +46,11 @@ inline void require_dims(const std::vector<Index>& dims, Index n) {
 
 /// One Fourier–Motzkin step on {x : A x <= b}: eliminates column k (the column is removed).
 /// Rows with a zero coefficient stay; every pair of a positive and a negative coefficient
-/// gives |a_qk| row_p + a_pk row_q.
+/// gives |a_qk| row_p + a_pk row_q. A combination that cancels to rounding level (norm below
+/// 1e-10 of the norms combined: nearly opposite rows) is 0·x <= β: dropped when β >= 0 (to
+/// rounding), kept
+/// as a zero row (an empty set) otherwise. Kept, it would be normalised to a row of noise with
+/// a huge right-hand side, which inflates the set's scale and with it every tolerance.
 inline void fourier_motzkin_step(Matrix& A, Vector& b, Index k) {
   const Index m = A.rows(), n = A.cols();
   std::vector<Index> pos, neg, zero;
@@ -69,9 +73,19 @@ inline void fourier_motzkin_step(Matrix& A, Vector& b, Index k) {
   for (Index p : pos)
     for (Index q : neg) {
       const double wp = -A(q, k), wq = A(p, k);
-      drop_column(wp * A.row(p) + wq * A.row(q), at);
-      ob(at++) = wp * b(p) + wq * b(q);
+      Eigen::RowVectorXd row = wp * A.row(p) + wq * A.row(q);
+      row(k) = 0.0;
+      const double rhs = wp * b(p) + wq * b(q);
+      const double size = wp * A.row(p).norm() + wq * A.row(q).norm();
+      if (row.norm() <= 1e-10 * size) {
+        if (rhs >= -1e-10 * (wp * std::abs(b(p)) + wq * std::abs(b(q)))) continue;
+        row.setZero();
+      }
+      drop_column(row, at);
+      ob(at++) = rhs;
     }
+  out.conservativeResize(at, n - 1);
+  ob.conservativeResize(at);
   A = std::move(out);
   b = std::move(ob);
 }
