@@ -260,6 +260,28 @@ def test_horizons_nest_and_cost_matrices():
     assert reg.H is None and reg.H_xc is None
 
 
+def test_progress_cancels():
+    A, B, X, U = double_integrator()
+    K = corral.lqr(A, B, np.eye(2), np.eye(1)).K
+    stages = set()
+
+    def stop_at(stage):
+        def progress(p):
+            stages.add(p["stage"])
+            return p["stage"] != stage
+
+        return progress
+
+    T = corral.closed_loop_admissible_set(A, B, K, X, U).set
+    with pytest.raises(corral.CancelledError):
+        corral.controllable_set(A, B, X, U, T, 3, progress=stop_at("controllable set"))
+    with pytest.raises(corral.CancelledError):
+        corral.dual_mode_region(A, B, K, X, U, 3, progress=stop_at("projection"))
+    with pytest.raises(corral.CancelledError):
+        corral.pre_set(A, B, T, U, progress=stop_at("projection"))
+    assert {"controllable set", "projection"} <= stages
+
+
 def test_bad_input():
     A, B, X, U = double_integrator()
     K = corral.lqr(A, B, np.eye(2), np.eye(1)).K

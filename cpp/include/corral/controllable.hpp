@@ -7,7 +7,8 @@
 /// & Morari 2017, ch. 10). The N-step controllable set to a target T under X:
 /// K_0 = T, K_{i+1} = X ∩ Pre(K_i): the states that some admissible inputs bring into T in N
 /// steps with every state before that in X. One projection (m eliminated variables) per step,
-/// never one projection of all N m inputs at once.
+/// with X's rows in the lifted set so that facets X cuts away never appear (on an 8-state
+/// plant this halved the rows to remove).
 
 #include <corral/polytope.hpp>
 #include <corral/projection.hpp>
@@ -43,19 +44,21 @@ inline void require_set_dim(const Polytope& S, Index dim, const std::string& nam
 
 }  // namespace detail
 
-/// Pre(C) under U and the mixed constraints on (x, u) (`mixed`: dimension n + m; a set with
-/// no rows means none). Irredundant. With `info`: LPs, time and the projection method.
-inline Polytope pre_set(const Matrix& A, const Matrix& B, const Polytope& C, const Polytope& U,
-                        const Polytope& mixed, const Options& opt = {}, Info* info = nullptr) {
-  const Index m = detail::require_system(A, B);
-  const Index n = A.rows();
-  detail::require_set_dim(C, n, "C", "the state");
-  detail::require_set_dim(U, m, "U", "the input");
-  detail::require_set_dim(mixed, n + m, "mixed", "(x, u)");
-  const Index rows = C.num_rows() + U.num_rows() + mixed.num_rows();
+namespace detail {
+
+/// S ∩ Pre(C), S a set in x (no rows: Pre(C) itself): S's rows join the lifted set before
+/// the projection, which then never produces the facets of Pre(C) that S cuts away.
+inline Polytope pre_set_within(const Matrix& A, const Matrix& B, const Polytope& C,
+                               const Polytope& U, const Polytope& mixed, const Polytope& S,
+                               const Options& opt, Info* info) {
+  const Index n = A.rows(), m = B.cols();
+  const Index rows = S.num_rows() + C.num_rows() + U.num_rows() + mixed.num_rows();
   Matrix G = Matrix::Zero(rows, n + m);
   Vector g(rows);
   Index at = 0;
+  G.block(at, 0, S.num_rows(), n) = S.A();
+  g.segment(at, S.num_rows()) = S.b();
+  at += S.num_rows();
   G.block(at, 0, C.num_rows(), n) = C.A() * A;
   G.block(at, n, C.num_rows(), m) = C.A() * B;
   g.segment(at, C.num_rows()) = C.b();
@@ -68,6 +71,20 @@ inline Polytope pre_set(const Matrix& A, const Matrix& B, const Polytope& C, con
   std::vector<Index> dims(static_cast<size_t>(n));
   for (Index i = 0; i < n; ++i) dims[static_cast<size_t>(i)] = i;
   return project(Polytope(G, g), dims, "auto", opt, info);
+}
+
+}  // namespace detail
+
+/// Pre(C) under U and the mixed constraints on (x, u) (`mixed`: dimension n + m; a set with
+/// no rows means none). Irredundant. With `info`: LPs, time and the projection method.
+inline Polytope pre_set(const Matrix& A, const Matrix& B, const Polytope& C, const Polytope& U,
+                        const Polytope& mixed, const Options& opt = {}, Info* info = nullptr) {
+  const Index m = detail::require_system(A, B);
+  const Index n = A.rows();
+  detail::require_set_dim(C, n, "C", "the state");
+  detail::require_set_dim(U, m, "U", "the input");
+  detail::require_set_dim(mixed, n + m, "mixed", "(x, u)");
+  return detail::pre_set_within(A, B, C, U, mixed, Polytope(n), opt, info);
 }
 
 /// Result of controllable_set().
@@ -114,11 +131,8 @@ inline ControllableResult controllable_set(const Matrix& A, const Matrix& B, con
       continue;
     }
     Info pi;
-    const Polytope pre = pre_set(A, B, prev, U, mixed, opt, &pi);
+    out.sets.push_back(detail::pre_set_within(A, B, prev, U, mixed, X, opt, &pi));
     count(pi);
-    RedundancyResult next = remove_redundancy(X.intersect(pre), opt);
-    count(next.info);
-    out.sets.push_back(next.set);
   }
   out.set = out.sets.back();
   out.steps = steps;

@@ -12,9 +12,12 @@
 /// - "vertices": the vertices of P (qhull or cddlib, enumeration.hpp), their kept
 ///   coordinates, and the facets of their convex hull (from_vertices). Bounded sets only
 ///   (UnboundedSetError otherwise).
-/// - "auto": "vertices" when P is bounded, has dimension <= 6 and at least 3 coordinates are
-///   eliminated; "fourier-motzkin" otherwise (a set with a line, or few eliminations, where
-///   each step only pairs rows). Measured in benchmarks/bench_dual_mode.py.
+/// - "auto": "vertices" when P is bounded, has dimension n <= 8, at most 10 n irredundant rows
+///   and at least 3 coordinates are eliminated; "fourier-motzkin" otherwise. Measured in
+///   benchmarks/bench_dual_mode.py: on random polytopes the vertex route wins once several
+///   coordinates go (8-D, 40 rows onto 2-D: 0.017 s against 7 s), while the lifted sets of
+///   pre-sets (many rows, one or two inputs eliminated) have so many vertices that
+///   Fourier–Motzkin wins by far (7-D, 110 rows, one input: 0.012 s against 8 s).
 /// The result is irredundant. An empty P gives the empty set.
 
 #include <corral/enumeration.hpp>
@@ -140,7 +143,7 @@ inline Polytope project(const Polytope& P, const std::vector<Index>& dims,
   const Polytope& R = first.set;
 
   bool use_vertices = method == "vertices";
-  if (method == "auto" && n <= 6 && n - k >= 3) {
+  if (method == "auto" && n <= 8 && n - k >= 3 && R.num_rows() <= 10 * n) {
     const bool bounded = R.is_bounded(opt);
     work.lp_solves += n + 1;  // is_bounded: n + 1 support LPs (a simplex of directions)
     use_vertices = bounded;
