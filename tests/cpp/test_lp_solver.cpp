@@ -1037,3 +1037,18 @@ TEST_CASE("lp: add_rows with no rows changes nothing") {
     CHECK(e->solve().value == doctest::Approx(4.0));
   }
 }
+
+TEST_CASE("check_answer: a ray must raise the objective beyond the tolerance") {
+  // max x1 s.t. x1 <= 1 (c is the row itself): bounded. A "ray" d = (1e-12, 1) meets
+  // A d <= tol |d| and has c·d > 0, but its ascent is inside the tolerance: not a proof.
+  const corral::Matrix A = corral::test::rows({{1, 0}});
+  const corral::Vector b = corral::test::vec({1});
+  const corral::Vector c = corral::test::vec({1, 0});
+  corral::lp::Result r;
+  r.status = corral::lp::Status::unbounded;
+  r.ray = corral::test::vec({1e-12, 1});
+  CHECK_FALSE(corral::lp::check_answer(c, A, b, r, 1e-9).ok);
+  // A real ray of max x2 over the same set passes.
+  r.ray = corral::test::vec({0, 1});
+  CHECK(corral::lp::check_answer(corral::test::vec({0, 1}), A, b, r, 1e-9).ok);
+}

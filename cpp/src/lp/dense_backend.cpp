@@ -16,7 +16,7 @@
 //     primal  a_i·x - b_i <= τ (|b_i| + ‖a_i‖ ‖x‖);
 //     optimal λ_i >= -τ max λ,  ‖Aᵀλ - c‖∞ <= τ (1 + ‖c‖∞),
 //             λ_i (b_i - a_i·x) <= τ max λ (|b_i| + ‖a_i‖ ‖x‖);
-//     stopped c·x > threshold;  unbounded A d <= τ ‖a_i‖ ‖d‖, c·d > 0;
+//     stopped c·x > threshold;  unbounded A d <= τ ‖a_i‖ ‖d‖, c·d > τ ‖c‖ ‖d‖;
 //     infeasible y >= -τ max y, ‖Aᵀy‖∞ <= τ Σ|y_i| ‖a_i‖, bᵀy < 0.
 //   An answer that fails is re-solved by GLPK and, when GLPK's answer fails too (or GLPK fails),
 //   by cdd-exact; Result::fallbacks counts the re-solves and Result::backend names the solver
@@ -341,7 +341,9 @@ class DenseSolver final : public SolverBase {
         const Vector ad = As_ * r.ray;
         for (Index i = 0; i < m; ++i)
           if (ad(i) > tol * an(i) * dn) return false;
-        return c_.dot(r.ray) > 0.0;
+        // The ascent must exceed what the tolerance allows the rows: when c is (nearly) a row
+        // of A, a ray with c·d > 0 but inside the tolerance proves nothing.
+        return c_.dot(r.ray) > tol * c_.norm() * dn;
       }
       case Status::infeasible: {
         if (r.farkas.size() != m || !r.farkas.allFinite()) return false;

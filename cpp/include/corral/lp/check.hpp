@@ -29,7 +29,8 @@ struct CheckReport {
 ///   μ_i >= -tol max μ, ‖Aᵀλ - c‖∞ <= tol (1 + ‖c‖∞ + max μ),
 ///   μ_i (b_i - a_i·x) / ‖a_i‖ <= tol max μ (|b_i| / ‖a_i‖ + ‖x‖);
 /// - stopped: c·x > threshold is the caller's to check;
-/// - ray (when present): A d <= tol ‖a_i‖ ‖d‖ and c·d > 0;
+/// - ray (when present): A d <= tol ‖a_i‖ ‖d‖ and c·d > tol ‖c‖ ‖d‖ (an ascent beyond what
+///   the tolerance allows the rows);
 /// - Farkas (when present): y >= -tol max y, ‖Aᵀy‖ small, bᵀy < 0.
 inline CheckReport check_answer(const Vector& c, const Matrix& A, const Vector& b,
                                 const Result& result, double tol = 1e-9) {
@@ -97,7 +98,8 @@ inline CheckReport check_answer(const Vector& c, const Matrix& A, const Vector& 
     for (Index i = 0; i < m; ++i)
       if (ad(i) > tol * row_norm(i) * d.norm())
         fail("ray leaves the set at row " + std::to_string(i));
-    if (!(c.dot(d) > 0)) fail("ray does not increase the objective");
+    if (!(c.dot(d) > tol * c.norm() * d.norm()))
+      fail("ray does not increase the objective beyond the tolerance");
   }
   if (result.status == Status::infeasible && result.has_farkas()) {
     const Vector& y = result.farkas;
