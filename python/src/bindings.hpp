@@ -87,7 +87,6 @@ inline double tol_arg(py::handle obj) {
   return tol;
 }
 
-/// A vector as a new numpy array, or None when empty.
 /// Info as a dict (the Python side makes it a corral.Info).
 inline py::dict info_dict(const Info& info) {
   py::dict d;
@@ -115,6 +114,7 @@ inline py::object to_fraction(const Rational& q) {
   return Fraction(py::int_(py::str(q.numerator)), py::int_(py::str(q.denominator)));
 }
 
+/// A vector as a new numpy array, or None when empty.
 inline py::object vector_or_none(const Vector& v) {
   if (v.size() == 0) return py::none();
   return py::cast(v);

@@ -203,15 +203,7 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
         if (rhs < -abs_tol) return finish(Polytope::empty(n), k, true);
         continue;
       }
-      if (opt.progress) {  // between LP solves (cheap: the Python wrapper rate-limits); this
-                           // is also where Ctrl-C is noticed
-        Progress p;
-        p.stage = "admissible set";
-        p.done = k;
-        p.total = opt.max_steps;
-        p.lp_solves = out.lp_solves;
-        if (!opt.progress(p)) throw CancelledError();
-      }
+      detail::report_progress(opt.progress, "admissible set", k, opt.max_steps, out.lp_solves);
       cand.row(i) /= norm;
       frontier_rhs(i) = rhs / norm;
       const Vector row = cand.row(i).transpose();

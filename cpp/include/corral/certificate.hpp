@@ -111,14 +111,7 @@ inline Certificate certify_rows(const Polytope& S, const Matrix& C, const Vector
   if (C.rows() > 0 && S.num_rows() > 0) {
     auto lp = lp::make_solver(S.A(), S.b(), Vector::Zero(S.dim()), opt.backend);
     for (Index j = 0; j < C.rows(); ++j) {
-      if (opt.progress) {
-        Progress p;
-        p.stage = "certificate";
-        p.done = j;
-        p.total = C.rows();
-        p.lp_solves = cert.lp_solves;
-        if (!opt.progress(p)) throw CancelledError();
-      }
+      detail::report_progress(opt.progress, "certificate", j, C.rows(), cert.lp_solves);
       lp->set_objective(C.row(j).transpose());
       const lp::Result r = lp->solve();
       ++cert.lp_solves;

@@ -117,14 +117,7 @@ inline ControllableResult controllable_set(const Matrix& A, const Matrix& B, con
   count(k0.info);
   out.sets.push_back(k0.set);
   for (int i = 0; i < steps; ++i) {
-    if (opt.progress) {
-      Progress p;
-      p.stage = "controllable set";
-      p.done = i;
-      p.total = steps;
-      p.lp_solves = info.lp_solves;
-      if (!opt.progress(p)) throw CancelledError();
-    }
+    detail::report_progress(opt.progress, "controllable set", i, steps, info.lp_solves);
     const Polytope& prev = out.sets.back();
     if (prev.is_trivially_empty()) {
       out.sets.push_back(Polytope::empty(n));

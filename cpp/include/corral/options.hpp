@@ -63,4 +63,19 @@ class CancelledError : public CorralError {
   CancelledError() : CorralError("cancelled by the progress callback") {}
 };
 
+namespace detail {
+/// Calls `progress` (when set) with one report; throws CancelledError when it returns false.
+/// Routines call it between LP solves, which is also where Python's Ctrl-C is noticed.
+inline void report_progress(const ProgressCallback& progress, const char* stage, long done,
+                            long total, long lp_solves) {
+  if (!progress) return;
+  Progress p;
+  p.stage = stage;
+  p.done = done;
+  p.total = total;
+  p.lp_solves = lp_solves;
+  if (!progress(p)) throw CancelledError();
+}
+}  // namespace detail
+
 }  // namespace corral

@@ -172,14 +172,7 @@ inline Polytope project(const Polytope& P, const std::vector<Index>& dims,
     if (!kept[static_cast<size_t>(c)]) A.col(at++) = R.A().col(c);
   Vector b = R.b();
   for (Index done = 0; done < n - k; ++done) {
-    if (opt.progress) {
-      Progress p;
-      p.stage = "projection";
-      p.done = done;
-      p.total = n - k;
-      p.lp_solves = work.lp_solves;
-      if (!opt.progress(p)) throw CancelledError();
-    }
+    detail::report_progress(opt.progress, "projection", done, n - k, work.lp_solves);
     Index best = k;
     double growth = detail::fourier_motzkin_growth(A, k);
     for (Index c = k + 1; c < A.cols(); ++c) {

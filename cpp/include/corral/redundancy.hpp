@@ -71,14 +71,7 @@ class RedundancyRemover {
   enum State : char { kUndecided, kFacet, kTied, kRedundant };
 
   void report(long done, long total) {
-    if (opt_.progress) {
-      Progress p;
-      p.stage = "redundancy";
-      p.done = done;
-      p.total = total;
-      p.lp_solves = info_.lp_solves;
-      if (!opt_.progress(p)) throw CancelledError();
-    }
+    detail::report_progress(opt_.progress, "redundancy", done, total, info_.lp_solves);
   }
 
   void bounding_box_filter() {

@@ -293,14 +293,7 @@ class Worker {
     auto lp = lp::make_solver(F_, t_, Vector::Zero(n_), opt_.backend);
     std::vector<RowState> rows(static_cast<size_t>(k));
     for (Index j = 0; j < k; ++j) {
-      if (opt_.progress) {
-        Progress p;
-        p.stage = "exact";
-        p.done = j;
-        p.total = k;
-        p.lp_solves = out.exact_lps;
-        if (!opt_.progress(p)) throw CancelledError();
-      }
+      detail::report_progress(opt_.progress, "exact", j, k, out.exact_lps);
       const std::vector<Index> none;
       const std::vector<Index>& hint =
           static_cast<size_t>(j) < supports.size() ? supports[static_cast<size_t>(j)] : none;
