@@ -22,6 +22,7 @@ import corral
 import numpy as np
 import pytest
 import scipy.linalg
+from reference import contained, reference_admissible
 from scipy.optimize import linprog
 from scipy.spatial import ConvexHull
 
@@ -31,20 +32,6 @@ def lp_feasible(A_ub, b_ub, nvar):
         np.zeros(nvar), A_ub=A_ub, b_ub=b_ub, bounds=[(None, None)] * nvar, method="highs"
     )
     return res.status == 0, res.x
-
-
-def hi_max(c, A, b):
-    res = linprog(-c, A_ub=A, b_ub=b, bounds=[(None, None)] * len(c), method="highs")
-    if res.status == 3:
-        return math.inf
-    assert res.status == 0, res.message
-    return -res.fun
-
-
-def contained(P_A, P_b, Q_A, Q_b, tol=1e-7):
-    """{P} ⊆ {Q}: one LP per row of Q (reference: scipy HiGHS)."""
-    scale = max(1.0, np.abs(Q_b).max())
-    return all(hi_max(q, P_A, P_b) <= qb + tol * scale for q, qb in zip(Q_A, Q_b))
 
 
 def double_integrator():
@@ -124,23 +111,6 @@ def test_controllable_set_by_definition_and_nesting():
             )
 
 
-def augmented_reference(Psi, G, f, max_steps=300, tol=1e-9):
-    """Independent maximal admissible set loop (scipy HiGHS): rows G Ψ^k until every next row
-    is implied; returns (t*, rows, rhs)."""
-    rows, rhs = [G], [f]
-    Pk = np.eye(Psi.shape[0])
-    scale = max(1.0, np.abs(f).max())
-    for t in range(max_steps):
-        Pk = Pk @ Psi
-        cand = G @ Pk
-        H, h = np.vstack(rows), np.concatenate(rhs)
-        if all(hi_max(c, H, h) <= fi + tol * scale for c, fi in zip(cand, f)):
-            return t, H, h
-        rows.append(cand)
-        rhs.append(f)
-    raise AssertionError("reference loop did not converge")
-
-
 @pytest.mark.parametrize("N", [1, 3])
 def test_augmented_set_matches_independent_loop_and_projection(N):
     A, B, X, U = double_integrator()
@@ -160,7 +130,7 @@ def test_augmented_set_matches_independent_loop_and_projection(N):
     E[:, :m] = np.eye(m)
     G = np.vstack([np.hstack([X.A, np.zeros((len(X.b), N * m))]), np.hstack([-U.A @ K, U.A @ E])])
     f = np.concatenate([X.b, U.b])
-    t_ref, H, h = augmented_reference(Psi, G, f)  # reference: HiGHS loop, own convergence
+    t_ref, H, h = reference_admissible(Psi, G, f)  # reference: HiGHS loop, own convergence
     S = reg.augmented
     assert reg.steps == t_ref
     assert contained(S.A, S.b, H, h) and contained(H, h, S.A, S.b)

@@ -18,6 +18,7 @@ import cdd.gmp
 import corral
 import numpy as np
 import pytest
+from reference import random_stable
 
 
 def exact_margins_pycddlib(A, F, t):
@@ -43,20 +44,6 @@ def exact_margins_pycddlib(A, F, t):
             )
             out.append(None)
     return out
-
-
-def random_stable(rng, n, radius):
-    """A = Q D Qᵀ with D block diagonal: 2x2 rotations by angles in [0.2, 0.8] scaled by radius."""
-    D = np.zeros((n, n))
-    for i in range(0, n - 1, 2):
-        th = rng.uniform(0.2, 0.8)
-        D[i : i + 2, i : i + 2] = radius * np.array(
-            [[math.cos(th), -math.sin(th)], [math.sin(th), math.cos(th)]]
-        )
-    if n % 2:
-        D[n - 1, n - 1] = radius
-    Q, _ = np.linalg.qr(rng.normal(size=(n, n)))
-    return Q @ D @ Q.T
 
 
 def box(n, u=1.0):
@@ -97,7 +84,7 @@ def test_admissible_sets_match_pycddlib(n, radius, seed):
     """Worst exact margin of maximal admissible sets (rows tight under A up to rounding, so
     margins of either sign near 1e-16) equals the minimum over pycddlib's rational LPs."""
     rng = np.random.default_rng(seed)
-    A = random_stable(rng, n, radius)
+    A = random_stable(rng, n, (radius, radius))
     r = corral.max_admissible_set(A, box(n))
     S = r.set
     ref = exact_margins_pycddlib(A, S.A, S.b)  # reference: pycddlib GMP LP per row
@@ -115,7 +102,7 @@ def test_set_with_a_line_uses_relaxations():
     """S = P x R (a polygon times a free coordinate) has no vertex, so every row goes through
     the exact LPs over relaxations; the answer equals pycddlib's and the polygon's own."""
     rng = np.random.default_rng(7)
-    A2 = random_stable(rng, 2, 0.96)
+    A2 = random_stable(rng, 2, (0.96, 0.96))
     P = corral.max_admissible_set(A2, box(2)).set
     F = np.hstack([P.A, np.zeros((P.num_rows, 1))])
     A3 = np.block([[A2, np.zeros((2, 1))], [np.zeros((1, 2)), np.array([[0.5]])]])
@@ -146,7 +133,7 @@ def test_unbounded_and_empty_sets():
 
 def test_progress_cancels_and_bad_input():
     rng = np.random.default_rng(11)
-    A = random_stable(rng, 3, 0.95)
+    A = random_stable(rng, 3, (0.95, 0.95))
     S = corral.max_admissible_set(A, box(3)).set
     stages = []
 

@@ -263,6 +263,60 @@ inline AdmissibleResult max_admissible_set(const Matrix& A, const Polytope& X,
   return finish(std::move(S), steps_done, converged);
 }
 
+namespace detail {
+
+/// Checks A (n x n), B (n x m, m >= 1), finite; returns m.
+inline Index require_system(const Matrix& A, const Matrix& B) {
+  const Index n = A.rows();
+  if (n < 1) invalid("A", "must have at least one row");
+  require_square(A, n, "A");
+  if (B.rows() != n || B.cols() < 1)
+    invalid("B", "must have " + std::to_string(n) + " rows and at least one column, got " +
+                     std::to_string(B.rows()) + " x " + std::to_string(B.cols()));
+  require_finite(A, "A");
+  require_finite(B, "B");
+  return B.cols();
+}
+
+/// Checks the dimension of a set argument.
+inline void require_set_dim(const Polytope& S, Index dim, const std::string& name,
+                            const std::string& what) {
+  if (S.dim() != dim)
+    invalid(name, "must have dimension " + std::to_string(dim) + " (" + what + "), got " +
+                      std::to_string(S.dim()));
+}
+
+/// Checks a gain K of u = -K x: m x n and finite.
+inline void require_gain(const Matrix& K, Index m, Index n) {
+  if (K.rows() != m || K.cols() != n)
+    invalid("K", "must be " + std::to_string(m) + " x " + std::to_string(n) + " (u = -K x), got " +
+                     std::to_string(K.rows()) + " x " + std::to_string(K.cols()));
+  require_finite(K, "K");
+}
+
+/// Limits on (x, u) as rows G (x, u) <= f: x in X, u in U, (x, u) in mixed, in that order.
+struct StackedLimits {
+  Matrix G;
+  Vector f;
+};
+inline StackedLimits stack_limits(const Polytope& X, const Polytope& U, const Polytope& mixed) {
+  const Index n = X.dim(), m = U.dim();
+  const Index rows = X.num_rows() + U.num_rows() + mixed.num_rows();
+  StackedLimits L{Matrix::Zero(rows, n + m), Vector(rows)};
+  Index at = 0;
+  L.G.block(at, 0, X.num_rows(), n) = X.A();
+  L.f.segment(at, X.num_rows()) = X.b();
+  at += X.num_rows();
+  L.G.block(at, n, U.num_rows(), m) = U.A();
+  L.f.segment(at, U.num_rows()) = U.b();
+  at += U.num_rows();
+  L.G.middleRows(at, mixed.num_rows()) = mixed.A();
+  L.f.segment(at, mixed.num_rows()) = mixed.b();
+  return L;
+}
+
+}  // namespace detail
+
 /// Maximal admissible set of the closed loop x+ = (A - B K) x under u = -K x, with state
 /// constraints X (n-dimensional; empty Polytope(n) rows for none), input constraints U
 /// (m-dimensional) and mixed constraints `mixed` ((n + m)-dimensional, rows G x + H u <= f),
@@ -273,37 +327,16 @@ inline AdmissibleResult closed_loop_admissible_set(const Matrix& A, const Matrix
                                                    const Matrix& K, const Polytope& X,
                                                    const Polytope& U, const Polytope& mixed,
                                                    const AdmissibleOptions& opt = {}) {
+  const Index m = detail::require_system(A, B);
   const Index n = A.rows();
-  if (n < 1) detail::invalid("A", "must have at least one row");
-  detail::require_square(A, n, "A");
-  if (B.rows() != n || B.cols() < 1)
-    detail::invalid("B", "must have " + std::to_string(n) + " rows and at least one column");
-  const Index m = B.cols();
-  if (K.rows() != m || K.cols() != n)
-    detail::invalid("K", "must be " + std::to_string(m) + " x " + std::to_string(n) +
-                             " (u = -K x), got " + std::to_string(K.rows()) + " x " +
-                             std::to_string(K.cols()));
-  detail::require_finite(A, "A");
-  detail::require_finite(B, "B");
-  detail::require_finite(K, "K");
-  if (X.dim() != n) detail::invalid("X", "must have dimension " + std::to_string(n));
-  if (U.dim() != m) detail::invalid("U", "must have dimension " + std::to_string(m));
-  if (mixed.dim() != n + m)
-    detail::invalid("mixed", "must have dimension " + std::to_string(n + m) + " (x, u)");
-  const Index rows = X.num_rows() + U.num_rows() + mixed.num_rows();
-  Matrix G(rows, n);
-  Vector f(rows);
-  Index at = 0;
-  G.middleRows(at, X.num_rows()) = X.A();
-  f.segment(at, X.num_rows()) = X.b();
-  at += X.num_rows();
-  G.middleRows(at, U.num_rows()) = -U.A() * K;
-  f.segment(at, U.num_rows()) = U.b();
-  at += U.num_rows();
-  G.middleRows(at, mixed.num_rows()) = mixed.A().leftCols(n) - mixed.A().rightCols(m) * K;
-  f.segment(at, mixed.num_rows()) = mixed.b();
+  detail::require_gain(K, m, n);
+  detail::require_set_dim(X, n, "X", "the state");
+  detail::require_set_dim(U, m, "U", "the input");
+  detail::require_set_dim(mixed, n + m, "mixed", "(x, u)");
+  const detail::StackedLimits L = detail::stack_limits(X, U, mixed);
+  const Matrix G = L.G.leftCols(n) - L.G.rightCols(m) * K;  // u = -K x
   const Matrix Acl = A - B * K;
-  return max_admissible_set(Acl, Polytope(G, f), opt);
+  return max_admissible_set(Acl, Polytope(G, L.f), opt);
 }
 
 }  // namespace corral

@@ -10,6 +10,7 @@
 /// with X's rows in the lifted set so that facets X cuts away never appear (on an 8-state
 /// plant this halved the rows to remove).
 
+#include <corral/admissible.hpp>
 #include <corral/polytope.hpp>
 #include <corral/projection.hpp>
 
@@ -18,31 +19,6 @@
 #include <vector>
 
 namespace corral {
-
-namespace detail {
-
-/// Checks A (n x n), B (n x m, m >= 1), finite; returns m.
-inline Index require_system(const Matrix& A, const Matrix& B) {
-  const Index n = A.rows();
-  if (n < 1) invalid("A", "must have at least one row");
-  require_square(A, n, "A");
-  if (B.rows() != n || B.cols() < 1)
-    invalid("B", "must have " + std::to_string(n) + " rows and at least one column, got " +
-                     std::to_string(B.rows()) + " x " + std::to_string(B.cols()));
-  require_finite(A, "A");
-  require_finite(B, "B");
-  return B.cols();
-}
-
-/// Checks the dimension of a set argument.
-inline void require_set_dim(const Polytope& S, Index dim, const std::string& name,
-                            const std::string& what) {
-  if (S.dim() != dim)
-    invalid(name, "must have dimension " + std::to_string(dim) + " (" + what + "), got " +
-                      std::to_string(S.dim()));
-}
-
-}  // namespace detail
 
 namespace detail {
 
@@ -112,9 +88,8 @@ inline ControllableResult controllable_set(const Matrix& A, const Matrix& B, con
   if (steps < 0) detail::invalid("steps", "must be >= 0, got " + std::to_string(steps));
   ControllableResult out;
   Info info;
-  auto count = [&](const Info& part) { detail::add_info(info, part); };
   RedundancyResult k0 = remove_redundancy(target.intersect(X), opt);
-  count(k0.info);
+  info.add(k0.info);
   out.sets.push_back(k0.set);
   for (int i = 0; i < steps; ++i) {
     detail::report_progress(opt.progress, "controllable set", i, steps, info.lp_solves);
@@ -125,7 +100,7 @@ inline ControllableResult controllable_set(const Matrix& A, const Matrix& B, con
     }
     Info pi;
     out.sets.push_back(detail::pre_set_within(A, B, prev, U, mixed, X, opt, &pi));
-    count(pi);
+    info.add(pi);
   }
   out.set = out.sets.back();
   out.steps = steps;

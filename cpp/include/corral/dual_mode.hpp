@@ -103,11 +103,7 @@ inline DualModeRegion dual_mode_region(const Matrix& A, const Matrix& B, const M
   const Index m = detail::require_system(A, B);
   const Index n = A.rows();
   if (horizon < 1) detail::invalid("horizon", "must be >= 1, got " + std::to_string(horizon));
-  if (K.rows() != m || K.cols() != n)
-    detail::invalid("K", "must be " + std::to_string(m) + " x " + std::to_string(n) +
-                             " (u = -K x), got " + std::to_string(K.rows()) + " x " +
-                             std::to_string(K.cols()));
-  detail::require_finite(K, "K");
+  detail::require_gain(K, m, n);
   detail::require_set_dim(X, n, "X", "the state");
   detail::require_set_dim(U, m, "U", "the input");
   detail::require_set_dim(mixed, n + m, "mixed", "(x, u)");
@@ -123,27 +119,18 @@ inline DualModeRegion dual_mode_region(const Matrix& A, const Matrix& B, const M
   Psi.topLeftCorner(n, n) = Phi;
   Psi.block(0, n, n, m) = B;
   for (Index k = 0; k + 1 < N; ++k) Psi.block(n + k * m, n + (k + 1) * m, m, m).setIdentity();
-  // Limits in z: x in X; u = -K x + c_0 in U; G x + H u <= f.
-  const Index rows = X.num_rows() + U.num_rows() + mixed.num_rows();
-  Matrix G = Matrix::Zero(rows, nz);
-  Vector f(rows);
-  Index at = 0;
-  G.block(at, 0, X.num_rows(), n) = X.A();
-  f.segment(at, X.num_rows()) = X.b();
-  at += X.num_rows();
-  G.block(at, 0, U.num_rows(), n) = -U.A() * K;
-  G.block(at, n, U.num_rows(), m) = U.A();
-  f.segment(at, U.num_rows()) = U.b();
-  at += U.num_rows();
-  const Matrix Gx = mixed.A().leftCols(n), Gu = mixed.A().rightCols(m);
-  G.block(at, 0, mixed.num_rows(), n) = Gx - Gu * K;
-  G.block(at, n, mixed.num_rows(), m) = Gu;
-  f.segment(at, mixed.num_rows()) = mixed.b();
+  // Ĉ z = (x, u) with u = -K x + c_0; the limits in z are those on (x, u) composed with Ĉ.
+  Matrix Chat = Matrix::Zero(n + m, nz);
+  Chat.topLeftCorner(n, n).setIdentity();
+  Chat.block(n, 0, m, n) = -K;
+  Chat.block(n, n, m, m).setIdentity();
+  const detail::StackedLimits L = detail::stack_limits(X, U, mixed);
+  const Matrix G = L.G * Chat;
 
   DualModeRegion out;
   out.horizon = horizon;
   out.dynamics = Psi;
-  AdmissibleResult aug = max_admissible_set(Psi, Polytope(G, f), opt);
+  AdmissibleResult aug = max_admissible_set(Psi, Polytope(G, L.f), opt);
   out.augmented = aug.set;
   out.steps = aug.steps;
   out.converged = aug.converged;
@@ -165,11 +152,7 @@ inline DualModeRegion dual_mode_region(const Matrix& A, const Matrix& B, const M
   out.fallbacks += reach.fallbacks;
 
   if (Q) {
-    // Ĉ z = (x, u) with u = -K x + c_0; S = Ĉᵀ diag(Q, R) Ĉ.
-    Matrix Chat = Matrix::Zero(n + m, nz);
-    Chat.topLeftCorner(n, n).setIdentity();
-    Chat.block(n, 0, m, n) = -K;
-    Chat.block(n, n, m, m).setIdentity();
+    // S = Ĉᵀ diag(Q, R) Ĉ.
     Matrix D = Matrix::Zero(n + m, n + m);
     D.topLeftCorner(n, n) = *Q;
     D.bottomRightCorner(m, m) = *R;

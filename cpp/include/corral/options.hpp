@@ -48,6 +48,15 @@ struct Info {
                    static_cast<double>(lp_solves + 1);
     ++lp_solves;
   }
+
+  /// Adds the LPs and fallbacks of a part of the work (its time and method stay out).
+  void add(const Info& part) {
+    const double rows = mean_lp_rows * static_cast<double>(lp_solves) +
+                        part.mean_lp_rows * static_cast<double>(part.lp_solves);
+    lp_solves += part.lp_solves;
+    fallbacks += part.fallbacks;
+    mean_lp_rows = lp_solves ? rows / static_cast<double>(lp_solves) : 0.0;
+  }
 };
 
 namespace detail {

@@ -103,14 +103,6 @@ inline double fourier_motzkin_growth(const Matrix& A, Index k) {
   return p * q - p - q;
 }
 
-inline void add_info(Info& into, const Info& part) {
-  const double rows = into.mean_lp_rows * static_cast<double>(into.lp_solves) +
-                      part.mean_lp_rows * static_cast<double>(part.lp_solves);
-  into.lp_solves += part.lp_solves;
-  into.fallbacks += part.fallbacks;
-  into.mean_lp_rows = into.lp_solves ? rows / static_cast<double>(into.lp_solves) : 0.0;
-}
-
 }  // namespace detail
 
 /// Projection onto the coordinates `dims` (kept in that order) by `method` ("auto",
@@ -138,7 +130,7 @@ inline Polytope project(const Polytope& P, const std::vector<Index>& dims,
   if (P.is_trivially_empty()) return finish(Polytope::empty(k), "none");
   // Reduce P first: fewer rows to pair, and emptiness decided.
   RedundancyResult first = remove_redundancy(P, opt);
-  detail::add_info(work, first.info);
+  work.add(first.info);
   if (first.empty) return finish(Polytope::empty(k), "none");
   const Polytope& R = first.set;
 
@@ -151,12 +143,12 @@ inline Polytope project(const Polytope& P, const std::vector<Index>& dims,
   if (use_vertices) {
     Info vi;
     const Matrix V = R.vertices(false, &vi);  // UnboundedSetError when unbounded
-    detail::add_info(work, vi);
+    work.add(vi);
     Matrix W(V.rows(), k);
     for (Index j = 0; j < k; ++j) W.col(j) = V.col(dims[static_cast<size_t>(j)]);
     Info hi;
     Polytope out = Polytope::from_vertices(W, false, &hi);
-    detail::add_info(work, hi);
+    work.add(hi);
     return finish(out, "vertices");
   }
 
@@ -184,7 +176,7 @@ inline Polytope project(const Polytope& P, const std::vector<Index>& dims,
     }
     detail::fourier_motzkin_step(A, b, best);
     RedundancyResult step = remove_redundancy(Polytope(A, b), opt);
-    detail::add_info(work, step.info);
+    work.add(step.info);
     if (step.empty) return finish(Polytope::empty(k), "fourier-motzkin");
     A = step.set.A();
     b = step.set.b();

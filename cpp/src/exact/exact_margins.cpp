@@ -300,14 +300,13 @@ class Worker {
       RowState& rs = rows[static_cast<size_t>(j)];
       // The relaxation: the support hint and the rows nearly tight at a floating-point
       // optimiser; more rows (by slack) while it is unbounded.
+      const IntRow c = objective(j);
       lp->set_objective(objective_double(j));
       const lp::Result fr = lp->solve();
-      std::vector<Index> order = by_slack(fr);
-      const std::vector<Index> B = start_basis(by_slack(refine(j, fr)), fr);
+      const std::vector<Index> B = start_basis(by_slack(refine(c, fr)), fr);
       if (!B.empty()) {
         ++out.exact_solves;
         Q best;
-        const IntRow c = objective(j);
         const LpOutcome r = exact_simplex(c, B, best, out);
         if (r == LpOutcome::optimal) {
           rs.kind = RowState::Kind::exact;
@@ -320,12 +319,13 @@ class Worker {
           continue;
         }
       }
+      const std::vector<Index> order = by_slack(fr);
       size_t take = 0;
       while (take < order.size() && near_tight(fr, order[take])) ++take;
       take = std::max<size_t>(take, std::min<size_t>(order.size(), static_cast<size_t>(n_)));
       rs.rows = merge(clean(hint), order, take);
       for (;;) {
-        const LpOutcome r = settle(j, rs, out);
+        const LpOutcome r = settle(j, c, rs, out);
         if (r == LpOutcome::empty) return finish_empty(out);
         if (r != LpOutcome::unbounded || rs.rows.size() == static_cast<size_t>(F_.rows())) break;
         take = std::min(order.size(), 2 * take + 1);
@@ -364,7 +364,7 @@ class Worker {
         continue;
       }
       rs.rows = merge(rs.rows, violated, violated.size());
-      if (settle(worst, rs, out) == LpOutcome::empty) return finish_empty(out);
+      if (settle(worst, objective(worst), rs, out) == LpOutcome::empty) return finish_empty(out);
     }
   }
 
@@ -437,7 +437,7 @@ class Worker {
   // rounding, below what the first LP sees, and decides which vertex of the optimal face
   // {F_P x = t_P} is optimal. So δ is maximised over that face (its rows relaxed by 1e-9 of
   // the scale). The same optimiser when there is nothing to refine.
-  lp::Result refine(Index j, const lp::Result& r) const {
+  lp::Result refine(const IntRow& c, const lp::Result& r) const {
     if (r.status != lp::Status::optimal || !r.has_duals() || r.x.size() != n_) return r;
     const double top = r.duals.maxCoeff();
     if (!(top > 0.0)) return r;
@@ -445,7 +445,6 @@ class Worker {
     for (Index i = 0; i < r.duals.size(); ++i)
       if (r.duals(i) > 1e-12 * top) P.push_back(i);
     // δ = c - Σ λ_q F_q, exactly, then rounded.
-    const IntRow c = objective(j);
     std::vector<Z> acc(static_cast<size_t>(n_));
     std::vector<long> acc_e(static_cast<size_t>(n_), 0);
     Z lm, prod;
@@ -491,8 +490,7 @@ class Worker {
 
   IntRow objective(Index j) const { return A_ ? int_product_row(G_, *A_, j) : int_row(G_, j); }
 
-  std::vector<Q> objective_q(Index j) const {
-    const IntRow c = objective(j);
+  std::vector<Q> objective_q(const IntRow& c) const {
     std::vector<Q> cq(static_cast<size_t>(n_));
     for (Index q = 0; q < n_; ++q)
       set_dyadic(cq[static_cast<size_t>(q)].v, c.z[static_cast<size_t>(q)].v, c.e);
@@ -505,10 +503,10 @@ class Worker {
 
   // Solves the row's relaxation exactly; its value gives the bound, or the margin when the
   // relaxation holds every row of S.
-  LpOutcome settle(Index j, RowState& rs, ExactWorstMargin& out) const {
+  LpOutcome settle(Index j, const IntRow& c, RowState& rs, ExactWorstMargin& out) const {
     ++out.exact_lps;
     Q value;
-    const LpOutcome r = exact_lp(F_, t_, rs.rows, objective_q(j), value, rs.x);
+    const LpOutcome r = exact_lp(F_, t_, rs.rows, objective_q(c), value, rs.x);
     const bool all = rs.rows.size() == static_cast<size_t>(F_.rows());
     switch (r) {
       case LpOutcome::optimal:
