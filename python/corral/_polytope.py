@@ -94,9 +94,12 @@ def _vertices(
     """Vertices, each once, one per row (in no particular order).
 
     A full-dimensional set in floating point: qhull (quickhull) on the polar of the set about
-    its Chebyshev centre, every vertex recomputed and validated, exact cddlib when validation
-    fails; sets of lower dimension and 1-D sets: cddlib in double; exact=True: cddlib in GMP
-    rationals. as_fractions=True (needs exact=True) returns lists of fractions.Fraction.
+    its Chebyshev centre, every vertex recomputed and validated (a second qhull run with other
+    options when that fails), exact cddlib when validation fails again, its vertices then
+    reduced at the tolerance (rounded rows through a vertex in more than n facets do not meet
+    in one point exactly); sets of lower dimension and 1-D sets: cddlib in double;
+    exact=True: cddlib in GMP rationals, the exact vertices of the rows as given.
+    as_fractions=True (needs exact=True) returns lists of fractions.Fraction.
     Raises UnboundedSetError for an unbounded set; an empty set gives a (0, dim) array. With
     return_info=True also an Info whose ``method`` is "qhull", "cdd" or "cdd-exact" (empty
     for the canonical empty set) and whose ``fallbacks`` counts answers redone exactly.

@@ -558,6 +558,83 @@ TEST_CASE("enumeration: exact requests and the exact fallback report their metho
   CHECK(info.seconds >= 0.0);
 }
 
+// The points of X on the boundary of conv(X) (reference: the facets of exact cddlib's hull of
+// X, GMP rationals); for points in general position these are the vertices.
+Matrix boundary_points(const Matrix& X) {
+  const corral::detail::CddHull h = corral::detail::cdd_hull(X, true);
+  std::vector<Index> on;
+  for (Index p = 0; p < X.rows(); ++p) {
+    bool tight = false;
+    for (Index f = 0; f < h.A.rows() && !tight; ++f)
+      tight = std::abs(h.b(f) - h.A.row(f).dot(X.row(p))) <= 1e-9 * h.A.row(f).norm();
+    if (tight) on.push_back(p);
+  }
+  Matrix out(static_cast<Index>(on.size()), X.cols());
+  for (size_t j = 0; j < on.size(); ++j) out.row(static_cast<Index>(j)) = X.row(on[j]);
+  return out;
+}
+
+TEST_CASE("enumeration: the second qhull option set takes what the defaults reject") {
+  // Random points in R^5 (the 38th case of a generator sweep over n = 3..6): their hull is
+  // simplicial, so every vertex lies in many facets and the polar point cloud has many points
+  // on each facet. On it qhull's defaults stop with a precision error (a "wide merge"); the
+  // run with "C-0 Q12" validates, and vertices() answers on the qhull path.
+  std::mt19937 gen(1);
+  std::normal_distribution<double> N;
+  Matrix X;
+  for (int t = 0; t <= 38; ++t) {
+    const Index n = 3 + t % 4, k = n + 1 + (t * 7) % 40;
+    X.resize(k, n);
+    for (Index i = 0; i < k; ++i)
+      for (Index j = 0; j < n; ++j) X(i, j) = N(gen);
+  }
+  REQUIRE(X.cols() == 5);
+  const Polytope P = Polytope::from_vertices(X);
+  const auto ball = P.chebyshev_center();
+  const auto& ladder = corral::detail::qhull_option_ladder();
+  REQUIRE(ladder.size() == 2);
+  const auto first = corral::detail::qhull_vertices(P.A(), P.b(), ball.center, 1e-9, ladder[0]);
+  const auto second = corral::detail::qhull_vertices(P.A(), P.b(), ball.center, 1e-9, ladder[1]);
+  // Which option set fails depends on qhull's version (this is Debian's libqhull_r 8.0); the
+  // one that validates must be right.
+  if (first.outcome == corral::detail::QhullEnumeration::Outcome::ok)
+    MESSAGE("qhull's defaults validated here; the second option set was not needed");
+  REQUIRE(second.outcome == corral::detail::QhullEnumeration::Outcome::ok);
+  const Matrix ref = boundary_points(X);  // reference: exact cddlib's hull of the points
+  CHECK(same_points(second.V, ref, 1e-8));
+  Info info;
+  CHECK(same_points(P.vertices(false, &info), ref, 1e-8));
+  CHECK(info.method == "qhull");
+  CHECK(info.fallbacks == 0);
+}
+
+TEST_CASE("enumeration: the exact fallback gives the vertices at tolerance") {
+  // The facets of the hull of random points in R^4, rounded to doubles: a vertex lies in many
+  // of them, and in exact arithmetic those rounded rows no longer meet in one point. The
+  // exact vertices of the rows are many more than the hull's (clusters, and points in the
+  // middle of edges at rounding distance from them); reduced at tolerance they are the
+  // hull's vertices again (reference: the points on exact cddlib's hull of the input).
+  std::mt19937 gen(7);
+  std::normal_distribution<double> N;
+  Matrix X(14, 4);
+  for (Index i = 0; i < X.rows(); ++i)
+    for (Index j = 0; j < X.cols(); ++j) X(i, j) = N(gen);
+  const Polytope P = Polytope::from_vertices(X);
+  const Matrix exact = P.vertices(true);  // the rows as given, exactly
+  const Matrix ref = boundary_points(X);
+  CHECK(exact.rows() > ref.rows());
+  const Matrix reduced = corral::detail::vertices_at_tolerance(P.A(), P.b(), exact, 1e-9);
+  CHECK(same_points(reduced, ref, 1e-8));
+  // Every exact vertex is within rounding of the hull: no row of the reference hull is
+  // violated by more than 1e-12 (what was dropped lies on its boundary).
+  const corral::detail::CddHull h = corral::detail::cdd_hull(X, true);
+  CHECK(((h.A * exact.transpose()).colwise() - h.b).maxCoeff() <= 1e-12);
+  // A simple polytope's exact vertices are kept as they are (reference: the box's 2^n).
+  const Polytope box = Polytope::box(-Vector::Ones(4), 2.0 * Vector::Ones(4));
+  const Matrix bv = box.vertices(true);
+  CHECK(corral::detail::vertices_at_tolerance(box.A(), box.b(), bv, 1e-9).rows() == 16);
+}
+
 TEST_CASE("enumeration: concurrent qhull runs") {
   // libqhull_r keeps its state in one struct per call: two threads at once give the answers
   // of one thread (2^5 facets of the 5-D cross-polytope, 2 * 5 of the 5-cube).

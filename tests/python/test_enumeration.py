@@ -24,7 +24,7 @@ import cdd.gmp
 import corral
 import numpy as np
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, example, given, settings
 from hypothesis import strategies as st
 from scipy.optimize import linprog
 from scipy.spatial import ConvexHull, HalfspaceIntersection, cKDTree
@@ -440,6 +440,9 @@ def test_bad_and_tiny_input():
 
 
 @settings(max_examples=40, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+# Found by this property: qhull's default options raise a "large increase in max_outside"
+# precision error on the polar of this simplicial polytope; the second option set takes it.
+@example(n=5, extra=25, seed=306, lattice=False)
 @given(
     n=st.integers(2, 5),
     extra=st.integers(0, 25),

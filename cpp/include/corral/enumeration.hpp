@@ -24,9 +24,15 @@
 ///   preconditioned coordinates: for from_vertices the centred points scaled to extent 1 per
 ///   coordinate; for vertices() the coordinates y = x - x0 multiplied per coordinate by the
 ///   polar points' extent (which makes the polar points of extent 1), and the tolerance
-///   multiplied by the largest |vertex| in those coordinates. Any failure, of qhull or of a check,
-///   gives the answer of exact cddlib instead (Info::method "cdd-exact", Info::fallbacks counts
-///   it).
+///   multiplied by the largest |vertex| in those coordinates.
+/// - A qhull error or a failed check sends the call to the next of qhull's option sets
+///   (detail::qhull_option_ladder: the defaults, then "C-0 Q12"), and when every one fails, to
+///   exact cddlib (Info::method "cdd-exact", Info::fallbacks counts it). In vertices() the
+///   exact vertices of the rows as given are then reduced at tolerance
+///   (vertices_at_tolerance): rounded rows through a vertex in more than n facets do not meet
+///   in one point in exact arithmetic, and their exact vertices include clusters and points on
+///   edges at rounding distance. vertices(exact=true) and vertices_exact() return them
+///   unreduced.
 /// - Unbounded sets raise UnboundedSetError in vertices() on every path.
 ///
 /// Cost: qhull is output-sensitive (O(k log k) for n <= 3 on well-spread input, growing with
@@ -42,8 +48,10 @@
 
 #include <Eigen/Eigenvalues>
 
+#include <algorithm>
 #include <chrono>
 #include <string>
+#include <vector>
 
 namespace corral {
 
@@ -57,6 +65,49 @@ inline CddGenerators bounded_generators(const Polytope& P, bool exact, bool rati
     throw UnboundedSetError("polytope: is unbounded (" + std::to_string(g.rays.rows()) +
                             " extreme rays or lines); vertices need a bounded set");
   return g;
+}
+
+/// The vertices, at tolerance, of {x : A x <= b} (unit rows) from its exact vertices V: a
+/// point of V is kept when the rows within tol * scale of tight there have rank n (relative
+/// pivot threshold tol), and points within tol * scale of a kept one (max norm) are merged
+/// into it; scale = max(1, max |b_i|). Why: rows rounded to doubles that should meet in one
+/// vertex (a vertex in more than n facets) generally do not meet in exact arithmetic, so the
+/// exact vertices of the rounded rows include clusters of points within rounding of one
+/// another and points in the middle of edges and faces (at rounding distance from them), a
+/// list that can be hundreds of times longer than the polytope's vertices. At the points
+/// dropped the tight rows span fewer than n directions, so they are not vertices at
+/// tolerance; the ones merged are the same vertex at tolerance.
+inline Matrix vertices_at_tolerance(const Matrix& A, const Vector& b, const Matrix& V, double tol) {
+  const Index k = V.rows(), n = V.cols();
+  if (k == 0) return V;
+  const double scale = std::max(1.0, b.cwiseAbs().maxCoeff());
+  const double t = tol * scale;
+  std::vector<Index> kept;
+  std::vector<Index> tight;
+  for (Index p = 0; p < k; ++p) {
+    const Vector slack = b - A * V.row(p).transpose();
+    tight.clear();
+    for (Index i = 0; i < A.rows(); ++i)
+      if (slack(i) <= t) tight.push_back(i);
+    if (static_cast<Index>(tight.size()) >= n && hull_check::rank_of(A, tight, tol) == n)
+      kept.push_back(p);
+  }
+  // Merge: sweep in the order of the first coordinate; a point joins the first kept point
+  // within t of it.
+  std::sort(kept.begin(), kept.end(), [&](Index x, Index y) { return V(x, 0) < V(y, 0); });
+  std::vector<Index> out;
+  size_t window = 0;  // first index in `out` whose first coordinate may still be within t
+  for (Index p : kept) {
+    while (window < out.size() && V(out[window], 0) < V(p, 0) - t) ++window;
+    bool merged = false;
+    for (size_t q = window; q < out.size() && !merged; ++q)
+      merged = (V.row(out[q]) - V.row(p)).cwiseAbs().maxCoeff() <= t;
+    if (!merged) out.push_back(p);
+  }
+  std::sort(out.begin(), out.end());
+  Matrix W(static_cast<Index>(out.size()), n);
+  for (size_t j = 0; j < out.size(); ++j) W.row(static_cast<Index>(j)) = V.row(out[j]);
+  return W;
 }
 
 /// Outcome of a floating-point enumeration through qhull.
@@ -205,17 +256,24 @@ inline Matrix Polytope::vertices(bool exact, Info* info) const {
   if (num_rows() < n + 1)
     throw UnboundedSetError("polytope: " + std::to_string(num_rows()) + " rows cannot bound a " +
                             "full-dimensional set in R^" + std::to_string(n));
-  const detail::QhullEnumeration q = detail::qhull_vertices(A_, b_, r.x.head(n), opt.tolerance());
-  if (q.outcome == detail::QhullEnumeration::Outcome::ok) return finish(q.V, "qhull");
+  std::string failures;
+  for (const std::string& options : detail::qhull_option_ladder()) {
+    const detail::QhullEnumeration q =
+        detail::qhull_vertices(A_, b_, r.x.head(n), opt.tolerance(), options);
+    if (q.outcome == detail::QhullEnumeration::Outcome::ok) return finish(q.V, "qhull");
+    failures += (failures.empty() ? "" : "; ") + ("[" + options + "] " + q.failure);
+  }
   // qhull failed or its answer did not validate: an unbounded set is one reason.
   if (!is_bounded(opt))
     throw UnboundedSetError("polytope: is unbounded; vertices need a bounded set");
   for (Index j = 0; j <= n; ++j) inf.count_lp(static_cast<long>(num_rows()));
   ++inf.fallbacks;
   try {
-    return finish(detail::bounded_generators(*this, true, false).points, "cdd-exact");
+    const Matrix exact_vertices = detail::bounded_generators(*this, true, false).points;
+    return finish(detail::vertices_at_tolerance(A_, b_, exact_vertices, opt.tolerance()),
+                  "cdd-exact");
   } catch (const SolverError& e) {
-    throw SolverError(std::string(e.what()) + " (after qhull: " + q.failure + ")");
+    throw SolverError(std::string(e.what()) + " (after qhull: " + failures + ")");
   }
 }
 
@@ -264,16 +322,20 @@ inline Polytope Polytope::from_vertices(const Matrix& V, bool exact, Info* info)
   };
   if (exact) return finish(cdd(true), "cdd-exact");
   if (n == 1) return finish(cdd(false), "cdd");
-  const detail::QhullEnumeration q = detail::qhull_facets(V, Options{}.tolerance());
-  if (q.outcome == detail::QhullEnumeration::Outcome::ok)
-    return finish(Polytope(q.A, q.b), "qhull");
-  if (q.outcome == detail::QhullEnumeration::Outcome::lower_dimensional)
-    return finish(cdd(false), "cdd");
+  std::string failures;
+  for (const std::string& options : detail::qhull_option_ladder()) {
+    const detail::QhullEnumeration q = detail::qhull_facets(V, Options{}.tolerance(), options);
+    if (q.outcome == detail::QhullEnumeration::Outcome::ok)
+      return finish(Polytope(q.A, q.b), "qhull");
+    if (q.outcome == detail::QhullEnumeration::Outcome::lower_dimensional)
+      return finish(cdd(false), "cdd");
+    failures += (failures.empty() ? "" : "; ") + ("[" + options + "] " + q.failure);
+  }
   ++inf.fallbacks;
   try {
     return finish(cdd(true), "cdd-exact");
   } catch (const SolverError& e) {
-    throw SolverError(std::string(e.what()) + " (after qhull: " + q.failure + ")");
+    throw SolverError(std::string(e.what()) + " (after qhull: " + failures + ")");
   }
 }
 

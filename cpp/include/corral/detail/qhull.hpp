@@ -39,6 +39,11 @@ struct QhullRun {
 /// qhull's defaults (see the source file).
 const char* qhull_default_options();
 
+/// The option sets tried in turn when a run fails or its answer does not validate: the
+/// defaults first, then "C-0 Q12" (allows merges that qhull itself judges wide; the reasons
+/// and measurements are in the source file).
+const std::vector<std::string>& qhull_option_ladder();
+
 /// Hull of the rows of `points` (k x n, n >= 2, finite; not checked here beyond n >= 2 and
 /// k >= n + 1, which give exit code 1). qhull's messages go to a stream in memory, never to the
 /// terminal; every qhull error is returned, never thrown, and qhull's setjmp/longjmp stays
