@@ -459,6 +459,71 @@ TEST_CASE("enumeration: the validation rejects broken hulls with many points (bo
   CHECK_FALSE(check(V, moved).ok);
 }
 
+TEST_CASE("enumeration: the convex-surface test in vertex enumeration, and what it rejects") {
+  // 120 random unit rows in R^4 with right-hand side 1 (every row a facet, a simple polytope)
+  // and 10 more at 3 (redundant: their polar points lie inside the hull). Vertex enumeration
+  // of this set takes the surface test: the rows on qhull's hull are not evaluated at every
+  // vertex, the 10 others are. Reference for the accepted answer: exact cddlib's vertices.
+  std::mt19937 gen(5);
+  const Index n = 4, k = 130;
+  const Matrix R = random_unit_rows(gen, k, n);
+  Vector s = Vector::Ones(k);
+  s.tail(10).setConstant(3.0);
+  Matrix D = R.array().colwise() / s.array();  // the polar points (the origin is inside)
+  const corral::detail::QhullRun run = corral::detail::qhull_hull(D);
+  REQUIRE(run.ok);
+  auto check = [&run](const Matrix& W, const Vector& t) {
+    return corral::detail::polar_vertices(W, t, run, corral::detail::PolarMode::vertices, 1e-9);
+  };
+  const corral::detail::PolarCheck ok = check(R, s);
+  REQUIRE(ok.ok);
+  CHECK(ok.convex_surface);
+  const corral::detail::CddGenerators ref = corral::detail::cdd_generators(R, s, true, false);
+  CHECK(same_points(ok.objects, ref.points, 1e-9));
+  // (a) A facet row moved inward by 2 % after qhull ran: the vertices near it are now outside
+  // it, which the surface test sees at a ridge; validation fails.
+  Vector a = s;
+  a(3) = 0.98;
+  CHECK_FALSE(check(R, a).ok);
+  // (b) A redundant row (not on qhull's hull) moved inward to 0.9: it is evaluated at every
+  // vertex, and found violated.
+  Vector b = s;
+  b(k - 1) = 0.9;
+  const corral::detail::PolarCheck rb = check(R, b);
+  CHECK_FALSE(rb.ok);
+  CHECK(rb.failure.find("outside") != std::string::npos);
+  // (c) A row of one qhull facet replaced by a row that is not on it.
+  corral::detail::QhullRun moved = run;
+  int other = 0;
+  for (; other < k - 10; ++other) {
+    bool on = false;
+    for (int p = run.facet_start[0]; p < run.facet_start[1]; ++p)
+      on = on || run.facet_points[static_cast<size_t>(p)] == other;
+    if (!on) break;
+  }
+  moved.facet_points[0] = other;
+  CHECK_FALSE(
+      corral::detail::polar_vertices(R, s, moved, corral::detail::PolarMode::vertices, 1e-9).ok);
+  // (d) The cross-polytope |x|_1 <= 1 has vertices in 2^(n-1) facets (its polar, a cube, has
+  // facets of 2^(n-1) points): qhull merges, and the full check runs. With copies of its rows
+  // further out (redundant) to pass 64 rows. Reference: its 2n vertices +-e_i.
+  const Matrix signs = sign_vectors(static_cast<int>(n)) / std::sqrt(static_cast<double>(n));
+  Matrix many(80, n);
+  Vector sb(80);
+  for (Index i = 0; i < 80; ++i) {
+    many.row(i) = signs.row(i % signs.rows());
+    sb(i) = (1.0 + 0.01 * static_cast<double>(i / signs.rows())) / std::sqrt(double(n));
+  }
+  const corral::detail::QhullRun brun =
+      corral::detail::qhull_hull((many.array().colwise() / sb.array()).matrix());
+  REQUIRE(brun.ok);
+  const corral::detail::PolarCheck rbox =
+      corral::detail::polar_vertices(many, sb, brun, corral::detail::PolarMode::vertices, 1e-9);
+  CHECK(rbox.ok);
+  CHECK_FALSE(rbox.convex_surface);
+  CHECK(same_points(rbox.objects, plus_minus_unit(static_cast<int>(n))));
+}
+
 TEST_CASE("enumeration: unbounded sets raise on every path") {
   struct Set {
     const char* what;

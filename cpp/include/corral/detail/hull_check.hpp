@@ -27,6 +27,23 @@
 /// each piece bounded by its own ridges; such a surface covers the whole boundary of the hull,
 /// so a facet that qhull lost, or merged into a coarser one, makes a check fail.
 ///
+/// The surface test (vertex enumeration with more than 64 rows, every qhull facet a simplex of
+/// n rows of rank n, the common case of a simple polytope): in the polar, qhull's facets form
+/// a closed simplicial surface through the polar points p_i = r_i / s_i. It is the boundary of
+/// a convex polytope when it is locally convex at every ridge (the point of the neighbouring
+/// facet off the ridge lies strictly inside the facet's hyperplane), the origin lies strictly
+/// inside every facet's hyperplane (true here by construction), and the ray from the origin
+/// through the centroid of one facet meets no other facet (Mehlhorn, Näher, Schilz, Schirra,
+/// Seel, Seidel & Uhrig 1999, "Checking geometric programs or verification of geometric
+/// structures", Comput. Geom. 12; conditions from memory). Then every polar point on the
+/// surface lies inside every facet: check 2 holds for those rows without evaluating them at
+/// every vertex, and each is tight exactly at the vertices of its facets. The strictness is
+/// required with the tolerance as margin (slack > tol), the ray test with a relative margin of
+/// 1e-9 on the barycentric coordinates; where a margin is not met the test is off and check 2
+/// runs in full. Rows not on qhull's surface (its interior points) are always evaluated at
+/// every vertex. Cost: two slacks per ridge and one n x n solve per facet facing the ray,
+/// against one box-tree walk per row.
+///
 /// Slacks are distances in the caller's working (preconditioned) coordinates: for vertex
 /// enumeration s_i - r_i·y with unit rows, judged at tol times max |y|_inf over the vertices;
 /// for facet enumeration the distance (1 - r_i·y) / |y| of point i from facet y, judged at
@@ -96,6 +113,9 @@ struct PolarCheck {
   std::string failure;  ///< the first check that failed, when !ok
   Matrix objects;       ///< one vertex y per row
   RowSets tight;        ///< rows tight at each vertex, ascending
+  /// Check 2 for the rows on qhull's hull came from its convexity (the surface test in the
+  /// file comment) rather than from evaluating every row at every vertex.
+  bool convex_surface = false;
 };
 
 namespace hull_check {
@@ -561,6 +581,10 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   const double group_tol = mode == PolarMode::facets ? tol : tol * cand_scale;
   std::vector<Index> parent(static_cast<size_t>(F));
   std::iota(parent.begin(), parent.end(), Index{0});
+  // The surface test (file comment) applies to vertex enumeration with every qhull facet a
+  // simplex of n rows of rank n; it stays on while every ridge is strictly convex.
+  bool surface_test = mode == PolarMode::vertices && k > 64;
+  for (Index f = 0; f < F && surface_test; ++f) surface_test = simplex_full[static_cast<size_t>(f)];
   {
     auto rows_tight_at = [&](Index f, Index at) {
       const double ys = yscale_of(Y.row(at).transpose());
@@ -571,22 +595,80 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     // One test per ridge: two facets that share several ridges (pieces of a merged facet)
     // are tested again, which changes nothing.
     // A quick rejection first: the row of f off the ridge (the one row an adjacent simplex
-    // does not share) is almost never tight at the other facet's vertex.
-    auto off_ridge_tight = [&](Index f, Index r, Index at) {
-      const auto& fr = facet_rows[static_cast<size_t>(f)];
-      for (Index i : fr)
-        if (!std::binary_search(ridge_at(r), ridge_at(r) + nk, i)) {
-          const double ys = yscale_of(Y.row(at).transpose());
-          return std::abs(slack(i, Y.row(at).transpose(), ys)) <= group_tol;
+    // does not share) is almost never tight at the other facet's vertex. The same slack,
+    // signed, serves the surface test (file comment): with simplicial facets it must be
+    // strictly positive, beyond the tolerance, both ways across every ridge. NaN when f
+    // has no row off the ridge.
+    auto off_ridge_slack = [&](Index f, Index r, Index at) {
+      const Index* rg = ridge_at(r);
+      for (Index i : facet_rows[static_cast<size_t>(f)])
+        if (!std::binary_search(rg, rg + nk, i)) {
+          const double ys = mode == PolarMode::facets ? yscale_of(Y.row(at).transpose()) : 1.0;
+          return slack(i, Y.row(at).transpose(), ys);
         }
-      return true;
+      return std::numeric_limits<double>::quiet_NaN();
     };
     for (const auto& [ra, rb] : adjacent) {
       const Index fa = hull.ridge_owner[static_cast<size_t>(ra)];
       const Index fb = hull.ridge_owner[static_cast<size_t>(rb)];
-      if (!off_ridge_tight(fb, rb, fa) || !off_ridge_tight(fa, ra, fb)) continue;
+      const double sb = off_ridge_slack(fb, rb, fa);
+      if (surface_test && !(sb > group_tol)) surface_test = false;
+      if (!(std::abs(sb) <= group_tol) && !std::isnan(sb)) {
+        if (!surface_test) continue;
+        // Not tight, so no grouping; the other direction only for the surface test.
+        if (!(off_ridge_slack(fa, ra, fb) > group_tol)) surface_test = false;
+        continue;
+      }
+      const double sa = off_ridge_slack(fa, ra, fb);
+      if (surface_test && !(sa > group_tol)) surface_test = false;
+      if (!(std::abs(sa) <= group_tol) && !std::isnan(sa)) continue;
       if (find_root(parent, fa) == find_root(parent, fb)) continue;
       if (rows_tight_at(fb, fa) && rows_tight_at(fa, fb)) hull_check::unite(parent, fa, fb);
+    }
+  }
+
+  // The ray condition of the surface test: the ray from the origin through the centroid c of
+  // facet 0's polar points meets no other facet. Facet g (the simplex of the polar points
+  // p_i = U_i / u_i, i in its rows T, on the hyperplane p·y_g = 1) is met, if at all, at
+  // x = c / (c·y_g) with c·y_g > 0; x = sum_q lambda_q p_q with lambda_q = mu_q u_q, where
+  // U_T^T mu = x. It is missed when some lambda_q is clearly negative; a facet met or
+  // touched within rounding turns the test off (check 2 then runs in full).
+  if (surface_test) {
+    const auto& f0 = facet_rows[0];
+    Vector c = Vector::Zero(n);
+    for (Index i : f0) c += U.row(i).transpose() / u(i);
+    c /= static_cast<double>(n);
+    solver.M.resize(n, n);
+    solver.rhs.resize(n);
+    Eigen::RowVectorXd mu(n);
+    Vector x(n), centre(n);
+    for (Index g = 1; g < F && surface_test; ++g) {
+      const double d = Y.row(g).dot(c);
+      if (!(d > 0.0)) continue;
+      const auto& T = facet_rows[static_cast<size_t>(g)];
+      // A quick miss first: x farther from the facet's centroid than its farthest point
+      // (with a margin) is outside the simplex.
+      x = c / d;
+      centre.setZero();
+      for (Index i : T) centre += U.row(i).transpose() / u(i);
+      centre /= static_cast<double>(n);
+      double reach = 0.0;
+      for (Index i : T) reach = std::max(reach, (U.row(i).transpose() / u(i) - centre).norm());
+      if ((x - centre).norm() > 1.01 * reach) continue;
+      for (Index q = 0; q < n; ++q)
+        for (Index j = 0; j < n; ++j) solver.M(j, q) = U(T[static_cast<size_t>(q)], j);
+      solver.rhs = x;
+      if (!solver.solve_square(n, tol, mu)) {
+        surface_test = false;
+        break;
+      }
+      double lowest = std::numeric_limits<double>::infinity(), largest = 0.0;
+      for (Index q = 0; q < n; ++q) {
+        const double lambda = mu(q) * u(T[static_cast<size_t>(q)]);
+        lowest = std::min(lowest, lambda);
+        largest = std::max(largest, std::abs(lambda));
+      }
+      if (!(lowest < -1e-9 * largest)) surface_test = false;
     }
   }
 
@@ -703,10 +785,30 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
         }
       }
     }
-    const hull_check::BoxTree tree(direct ? Matrix(0, n) : out.objects, off, 8);
+    // The surface test passed: the rows on qhull's hull hold at every vertex (the surface is
+    // convex), and each is tight at the vertices of its facets; only the other rows are
+    // evaluated. (pass 0 only: the test's facets are the groups; a merge ends it.)
+    std::vector<char> on_surface;
+    const bool surface = surface_test && pass == 0 && G == F;
+    out.convex_surface = surface;
+    if (surface) {
+      on_surface.assign(static_cast<size_t>(k), 0);
+      for (Index f = 0; f < F; ++f)
+        for (Index i : facet_rows[static_cast<size_t>(f)]) {
+          on_surface[static_cast<size_t>(i)] = 1;
+          tight_pairs.emplace_back(group_of[static_cast<size_t>(f)], i);
+        }
+    }
+    bool any_walk = !direct;
+    if (surface) {
+      any_walk = false;
+      for (Index i = 0; i < k && !any_walk; ++i) any_walk = !on_surface[static_cast<size_t>(i)];
+    }
+    const hull_check::BoxTree tree(any_walk ? out.objects : Matrix(0, n), off, 8);
     std::vector<Index> stack;
     std::vector<double> scratch;
-    for (Index i = 0; i < k && !direct; ++i) {
+    for (Index i = 0; i < k && any_walk; ++i) {
+      if (surface && on_surface[static_cast<size_t>(i)]) continue;
       const double l = lo(i), h = hi(i);
       const double* r = R.data() + i * n;
       Index bad = -1;
@@ -737,6 +839,12 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       for (const auto& [g, i] : tight_pairs)
         out.tight.items[static_cast<size_t>(fill[static_cast<size_t>(g)]++)] = i;
     }
+    if (surface)  // the pairs came facet by facet, then row by row: sort each vertex's rows
+      for (Index g = 0; g < G; ++g)
+        std::sort(out.tight.items.begin() +
+                      static_cast<std::ptrdiff_t>(out.tight.start[static_cast<size_t>(g)]),
+                  out.tight.items.begin() +
+                      static_cast<std::ptrdiff_t>(out.tight.start[static_cast<size_t>(g + 1)]));
     for (Index g = 0; g < G; ++g)
       if (!hull_check::sorted_includes(out.tight[static_cast<size_t>(g)],
                                        group_rows[static_cast<size_t>(g)]))
