@@ -13,13 +13,16 @@ corral's time includes everything ``vertices()`` does: the Chebyshev centre (one
 default backend), the preconditioning, the qhull run, the validation of every vertex, and a
 fallback to exact cddlib when validation fails. Targets (reported, never asserted): within
 1.5x of scipy's time everywhere; at least 10x faster than cddlib's floating point for n >= 5
-with >= 200 facets. A second table times ``Polytope.from_vertices()`` against
-``scipy.spatial.ConvexHull`` on random point clouds, and a third shows the cost of the exact
+with >= 200 facets. A second table does the same for non-simple polytopes (the facets of
+hulls of random points, each vertex in many rows: the case where qhull's default options
+can fail) and counts, over many clouds, which path answered and what the exact fallback
+cost. A third table times ``Polytope.from_vertices()`` against
+``scipy.spatial.ConvexHull`` on random point clouds, and a fourth shows the cost of the exact
 fallback on badly scaled cyclic polytopes (integer moment-curve parameters), where the
 floating-point answer fails validation.
 
 Usage: python3 benchmarks/bench_vertices.py [--seed S] [--cap SECONDS] [--n 3,4,5,6]
-       [--m 50,100,200,500] [--repeats R] [--out FILE]
+       [--m 50,100,200,500] [--repeats R] [--clouds C] [--out FILE]
 """
 
 from __future__ import annotations
@@ -119,6 +122,9 @@ def main():
     ap.add_argument("--m", default="50,100,200,500")
     ap.add_argument("--repeats", type=int, default=15)
     ap.add_argument(
+        "--clouds", type=int, default=50, help="random clouds per size (non-simple table)"
+    )
+    ap.add_argument(
         "--out", default=os.path.join(os.path.dirname(__file__), "results", "vertices.json")
     )
     args = ap.parse_args()
@@ -205,6 +211,58 @@ def main():
         )
     print(f"random cases answered by the exact fallback: {exact_cases} of {len(rows)}")
 
+    print(
+        "\nvertices() of non-simple polytopes (the facets of hulls of random points: every "
+        "vertex in many rows),\n"
+        f"{args.clouds} clouds per size; time of the first against scipy "
+        "HalfspaceIntersection (= 1.00)"
+    )
+    print(
+        f"{'n':>2} {'pts':>4} {'rows':>5} {'corral s':>9} {'scipy s':>9} {'corral/scipy':>12} "
+        f"{'qhull':>6} {'cdd-exact':>9} {'exact s':>8}"
+    )
+    simplicial_rows = []
+    for n in ns:
+        for k in (30, 60):
+            paths = {"qhull": 0, "cdd-exact": 0}
+            exact_s = 0.0
+            first = None
+            for c in range(args.clouds):
+                X = rng.normal(size=(k, n))
+                P = corral.Polytope.from_vertices(X)
+                t0 = time.perf_counter()
+                V, info = P.vertices(return_info=True)
+                took = time.perf_counter() - t0
+                paths[info.method] = paths.get(info.method, 0) + 1
+                if info.method == "cdd-exact":
+                    exact_s += took
+                if c == 0:
+                    x0 = chebyshev_centre(P.A, P.b)
+                    H = np.hstack([P.A, -P.b[:, None]])
+                    t_c, t_s, _, _ = timed_pair(
+                        lambda P=P: P.vertices(),
+                        lambda H=H, x0=x0: HalfspaceIntersection(H, x0),
+                        args.repeats,
+                    )
+                    first = (P.num_rows, t_c, t_s)
+            print(
+                f"{n:>2} {k:>4} {first[0]:>5} {first[1]:9.4f} {first[2]:9.4f} "
+                f"{first[1] / first[2]:12.2f} {paths['qhull']:>6} {paths['cdd-exact']:>9} "
+                f"{exact_s:8.2f}"
+            )
+            simplicial_rows.append(
+                dict(
+                    n=n,
+                    points=k,
+                    rows=first[0],
+                    corral_s=first[1],
+                    scipy_s=first[2],
+                    clouds=args.clouds,
+                    paths=paths,
+                    exact_seconds_total=exact_s,
+                )
+            )
+
     print("\nfrom_vertices(): corral (qhull path, validated) vs scipy ConvexHull (= 1.00)")
     print(
         f"{'n':>2} {'pts':>5} {'facets':>6} {'path':>9} {'corral s':>9} {'scipy s':>9} "
@@ -256,6 +314,7 @@ def main():
         cap=args.cap,
         vertices=rows,
         hulls=hull_rows,
+        non_simple=simplicial_rows,
         cyclic=cyc_rows,
     )
 

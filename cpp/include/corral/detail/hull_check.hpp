@@ -27,8 +27,8 @@
 /// each piece bounded by its own ridges; such a surface covers the whole boundary of the hull,
 /// so a facet that qhull lost, or merged into a coarser one, makes a check fail.
 ///
-/// The surface test (vertex enumeration with more than 64 rows, every qhull facet a simplex of
-/// n rows of rank n, the common case of a simple polytope): in the polar, qhull's facets form
+/// The surface test (vertex enumeration with every qhull facet a simplex of n rows of rank n,
+/// the common case of a simple polytope): in the polar, qhull's facets form
 /// a closed simplicial surface through the polar points p_i = r_i / s_i. It is the boundary of
 /// a convex polytope when it is locally convex at every ridge (the point of the neighbouring
 /// facet off the ridge lies strictly inside the facet's hyperplane), the origin lies strictly
@@ -41,8 +41,8 @@
 /// required with the tolerance as margin (slack > tol), the ray test with a relative margin of
 /// 1e-9 on the barycentric coordinates; where a margin is not met the test is off and check 2
 /// runs in full. Rows not on qhull's surface (its interior points) are always evaluated at
-/// every vertex. Cost: two slacks per ridge and one n x n solve per facet facing the ray,
-/// against one box-tree walk per row.
+/// every vertex. Cost: two slacks per ridge and one n x n solve per facet near the ray,
+/// against one box-tree walk per row (or, with 64 rows or fewer, one product per pair).
 ///
 /// Slacks are distances in the caller's working (preconditioned) coordinates: for vertex
 /// enumeration s_i - r_i·y with unit rows, judged at tol times max |y|_inf over the vertices;
@@ -583,7 +583,7 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   std::iota(parent.begin(), parent.end(), Index{0});
   // The surface test (file comment) applies to vertex enumeration with every qhull facet a
   // simplex of n rows of rank n; it stays on while every ridge is strictly convex.
-  bool surface_test = mode == PolarMode::vertices && k > 64;
+  bool surface_test = mode == PolarMode::vertices;
   for (Index f = 0; f < F && surface_test; ++f) surface_test = simplex_full[static_cast<size_t>(f)];
   {
     auto rows_tight_at = [&](Index f, Index at) {
@@ -756,35 +756,6 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
                : ys > 0.0                  ? tol / ys
                                            : std::numeric_limits<double>::infinity();
     }
-    // Only the vertices that a box of the tree does not rule out are evaluated (the rest
-    // have r_i·y + off < lo_i <= hi_i, so they are neither tight nor violated); rows go in
-    // increasing order, so each tight list comes out sorted.
-    // Few rows (64 or fewer): every pair, by blocked matrix products; the tree's construction
-    // would cost more than it saves (measured by instruction counts at n = 3..6).
-    const bool direct = k <= 64;
-    if (direct) {
-      const Index block = 512;
-      Matrix P;  // block x k: the products of a block of vertices with every row
-      for (Index g0 = 0; g0 < G; g0 += block) {
-        const Index B = std::min(block, G - g0);
-        P.noalias() = out.objects.middleRows(g0, B) * R.transpose();
-        for (Index c = 0; c < B; ++c) {
-          const double* pr = P.data() + c * k;
-          const double o = off(g0 + c);
-          for (Index i = 0; i < k; ++i) {
-            if (pr[i] + o < lo(i)) continue;  // not tight
-            if (pr[i] - o > hi(i)) {
-              const Vector y = out.objects.row(g0 + c).transpose();
-              return fail((mode == PolarMode::facets ? "point " : "row ") + std::to_string(i) +
-                          " is outside " + (mode == PolarMode::facets ? "facet " : "at vertex ") +
-                          std::to_string(g0 + c) + " by " +
-                          std::to_string(-slack(i, y, yscale_of(y))));
-            }
-            tight_pairs.emplace_back(g0 + c, i);
-          }
-        }
-      }
-    }
     // The surface test passed: the rows on qhull's hull hold at every vertex (the surface is
     // convex), and each is tight at the vertices of its facets; only the other rows are
     // evaluated. (pass 0 only: the test's facets are the groups; a merge ends it.)
@@ -799,11 +770,39 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
           tight_pairs.emplace_back(group_of[static_cast<size_t>(f)], i);
         }
     }
-    bool any_walk = !direct;
-    if (surface) {
-      any_walk = false;
-      for (Index i = 0; i < k && !any_walk; ++i) any_walk = !on_surface[static_cast<size_t>(i)];
+    bool off_surface = !surface;  // some row is not on the surface
+    for (Index i = 0; i < k && !off_surface; ++i) off_surface = !on_surface[static_cast<size_t>(i)];
+    // Few rows (64 or fewer): every pair, by blocked matrix products; the tree's construction
+    // would cost more than it saves (measured by instruction counts at n = 3..6).
+    const bool direct = k <= 64;
+    if (direct && off_surface) {
+      const Index block = 512;
+      Matrix P;  // block x k: the products of a block of vertices with every row
+      for (Index g0 = 0; g0 < G; g0 += block) {
+        const Index B = std::min(block, G - g0);
+        P.noalias() = out.objects.middleRows(g0, B) * R.transpose();
+        for (Index c = 0; c < B; ++c) {
+          const double* pr = P.data() + c * k;
+          const double o = off(g0 + c);
+          for (Index i = 0; i < k; ++i) {
+            if (pr[i] + o < lo(i)) continue;  // not tight
+            if (surface && on_surface[static_cast<size_t>(i)]) continue;
+            if (pr[i] - o > hi(i)) {
+              const Vector y = out.objects.row(g0 + c).transpose();
+              return fail((mode == PolarMode::facets ? "point " : "row ") + std::to_string(i) +
+                          " is outside " + (mode == PolarMode::facets ? "facet " : "at vertex ") +
+                          std::to_string(g0 + c) + " by " +
+                          std::to_string(-slack(i, y, yscale_of(y))));
+            }
+            tight_pairs.emplace_back(g0 + c, i);
+          }
+        }
+      }
     }
+    // Only the vertices that a box of the tree does not rule out are evaluated (the rest
+    // have r_i·y + off < lo_i <= hi_i, so they are neither tight nor violated); rows go in
+    // increasing order, so each tight list comes out sorted.
+    const bool any_walk = !direct && off_surface;
     const hull_check::BoxTree tree(any_walk ? out.objects : Matrix(0, n), off, 8);
     std::vector<Index> stack;
     std::vector<double> scratch;
