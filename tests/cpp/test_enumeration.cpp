@@ -22,8 +22,10 @@
 
 #include <algorithm>
 #include <cmath>
+#include <fstream>
 #include <limits>
 #include <random>
+#include <sstream>
 #include <string>
 #include <thread>
 #include <vector>
@@ -657,7 +659,7 @@ TEST_CASE("enumeration: the second qhull option set takes what the defaults reje
   const Polytope P = Polytope::from_vertices(X);
   const auto ball = P.chebyshev_center();
   const auto& ladder = corral::detail::qhull_option_ladder();
-  REQUIRE(ladder.size() == 2);
+  REQUIRE(ladder.size() >= 2);
   const auto first = corral::detail::qhull_vertices(P.A(), P.b(), ball.center, 1e-9, ladder[0]);
   const auto second = corral::detail::qhull_vertices(P.A(), P.b(), ball.center, 1e-9, ladder[1]);
   // Which option set fails depends on qhull's version (this is Debian's libqhull_r 8.0); the
@@ -671,6 +673,49 @@ TEST_CASE("enumeration: the second qhull option set takes what the defaults reje
   CHECK(same_points(P.vertices(false, &info), ref, 1e-8));
   CHECK(info.method == "qhull");
   CHECK(info.fallbacks == 0);
+}
+
+TEST_CASE("enumeration: the third qhull option set takes a pinched ridge") {
+  // tests/cpp/data/lattice_hull_6d_rows.txt: the rows (bit for bit) of the hull of 19 integer
+  // points in R^6, where qhull's defaults stop with a "dupridge" error and the answer of
+  // "C-0 Q12" fails validation. Reference: the vertices are the 19 integer points, checked
+  // here as the points on exact cddlib's hull of their rounded values.
+  std::ifstream in(std::string(CORRAL_TEST_DATA_DIR) + "/lattice_hull_6d_rows.txt");
+  REQUIRE(in.good());
+  std::vector<double> values;
+  for (std::string line; std::getline(in, line);) {
+    if (line.empty() || line[0] == '#') continue;
+    std::istringstream row(line);
+    for (double v; row >> v;) values.push_back(v);
+  }
+  const Index n = 6, m = static_cast<Index>(values.size()) / (n + 1);
+  REQUIRE(m == 306);
+  Matrix A(m, n);
+  Vector b(m);
+  for (Index i = 0; i < m; ++i) {
+    for (Index j = 0; j < n; ++j) A(i, j) = values[static_cast<size_t>(i * (n + 1) + j)];
+    b(i) = values[static_cast<size_t>(i * (n + 1) + n)];
+  }
+  // The rows as stored (the Polytope constructor would normalise them again, which changes
+  // the last bits and, with them, what qhull does).
+  auto solver = corral::detail::chebyshev_solver(A, b, std::numeric_limits<double>::infinity(),
+                                                 corral::Options{}.backend);
+  const corral::lp::Result centre = corral::detail::solve_or_throw(*solver, "the centre");
+  REQUIRE(centre.status == corral::lp::Status::optimal);
+  const Vector x0 = centre.x.head(n);
+  const auto& ladder = corral::detail::qhull_option_ladder();
+  REQUIRE(ladder.size() == 3);
+  using Outcome = corral::detail::QhullEnumeration::Outcome;
+  for (size_t o = 0; o < 2; ++o)  // qhull-version dependent: reported, not required
+    if (corral::detail::qhull_vertices(A, b, x0, 1e-9, ladder[o]).outcome == Outcome::ok)
+      MESSAGE("option set " << o << " validated here; the third was not needed");
+  const auto third = corral::detail::qhull_vertices(A, b, x0, 1e-9, ladder[2]);
+  REQUIRE(third.outcome == Outcome::ok);
+  const Matrix rounded = third.V.array().round().matrix();
+  CHECK((third.V - rounded).cwiseAbs().maxCoeff() <= 1e-9);
+  CHECK(third.V.rows() == 19);
+  CHECK(same_points(third.V, boundary_points(rounded), 1e-9));
+  CHECK(((A * third.V.transpose()).colwise() - b).maxCoeff() <= 1e-9);
 }
 
 TEST_CASE("enumeration: the exact fallback gives the vertices at tolerance") {

@@ -26,13 +26,12 @@
 ///   polar points' extent (which makes the polar points of extent 1), and the tolerance
 ///   multiplied by the largest |vertex| in those coordinates.
 /// - A qhull error or a failed check sends the call to the next of qhull's option sets
-///   (detail::qhull_option_ladder: the defaults, then "C-0 Q12"), and when every one fails, to
-///   exact cddlib (Info::method "cdd-exact", Info::fallbacks counts it). In vertices() the
-///   exact vertices of the rows as given are then reduced at tolerance
-///   (vertices_at_tolerance): rounded rows through a vertex in more than n facets do not meet
-///   in one point in exact arithmetic, and their exact vertices include clusters and points on
-///   edges at rounding distance. vertices(exact=true) and vertices_exact() return them
-///   unreduced.
+///   (detail::qhull_option_ladder: the defaults, "C-0 Q12", "C-0 Q12 Q14"), and when every one
+///   fails, to exact cddlib (Info::method "cdd-exact", Info::fallbacks counts it). In vertices()
+///   the exact vertices of the rows as given are then reduced at tolerance (vertices_at_tolerance):
+///   rounded rows through a vertex in more than n facets do not meet in one point in exact
+///   arithmetic, and their exact vertices include clusters and points on edges at rounding
+///   distance. vertices(exact=true) and vertices_exact() return them unreduced.
 /// - Unbounded sets raise UnboundedSetError in vertices() on every path.
 ///
 /// Cost: qhull is output-sensitive (O(k log k) for n <= 3 on well-spread input, growing with

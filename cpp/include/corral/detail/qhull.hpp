@@ -40,8 +40,9 @@ struct QhullRun {
 const char* qhull_default_options();
 
 /// The option sets tried in turn when a run fails or its answer does not validate: the
-/// defaults first, then "C-0 Q12" (allows merges that qhull itself judges wide; the reasons
-/// and measurements are in the source file).
+/// defaults first, then "C-0 Q12" (allows merges that qhull itself judges wide), then
+/// "C-0 Q12 Q14" (also merges pinched vertices); the reasons and measurements are in the
+/// source file.
 const std::vector<std::string>& qhull_option_ladder();
 
 /// Hull of the rows of `points` (k x n, n >= 2, finite; not checked here beyond n >= 2 and
