@@ -506,7 +506,7 @@ inline RedundancyResult remove_redundancy(const Polytope& P, const Options& opt 
       }
     }
     out.set = Polytope::from_normalized(A.topRows(k), b.head(k), src, P.caller_row_count());
-    out.info.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    out.info.seconds = detail::seconds_since(t0);
   };
   if (P.is_trivially_empty() || m == 0) {
     out.empty = P.is_trivially_empty();
@@ -561,7 +561,7 @@ inline RedundancyResult remove_redundancy(const Polytope& P, const Options& opt 
     out.kept.clear();
     out.redundant.clear();
     for (Index i = 0; i < m; ++i) out.redundant.push_back(i);
-    out.info.seconds = std::chrono::duration<double>(std::chrono::steady_clock::now() - t0).count();
+    out.info.seconds = detail::seconds_since(t0);
     return out;
   }
   Vector x0 = cr.x.head(n);
