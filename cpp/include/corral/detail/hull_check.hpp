@@ -608,20 +608,16 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
         }
       return std::numeric_limits<double>::quiet_NaN();
     };
+    auto tight_or_none = [&](double v) { return std::isnan(v) || std::abs(v) <= group_tol; };
     for (const auto& [ra, rb] : adjacent) {
       const Index fa = hull.ridge_owner[static_cast<size_t>(ra)];
       const Index fb = hull.ridge_owner[static_cast<size_t>(rb)];
       const double sb = off_ridge_slack(fb, rb, fa);
-      if (surface_test && !(sb > group_tol)) surface_test = false;
-      if (!(std::abs(sb) <= group_tol) && !std::isnan(sb)) {
-        if (!surface_test) continue;
-        // Not tight, so no grouping; the other direction only for the surface test.
-        if (!(off_ridge_slack(fa, ra, fb) > group_tol)) surface_test = false;
-        continue;
-      }
-      const double sa = off_ridge_slack(fa, ra, fb);
-      if (surface_test && !(sa > group_tol)) surface_test = false;
-      if (!(std::abs(sa) <= group_tol) && !std::isnan(sa)) continue;
+      const double sa = surface_test || tight_or_none(sb)
+                            ? off_ridge_slack(fa, ra, fb)
+                            : std::numeric_limits<double>::quiet_NaN();
+      if (surface_test && !(sb > group_tol && sa > group_tol)) surface_test = false;
+      if (!tight_or_none(sb) || !tight_or_none(sa)) continue;
       if (find_root(parent, fa) == find_root(parent, fb)) continue;
       if (rows_tight_at(fb, fa) && rows_tight_at(fa, fb)) hull_check::unite(parent, fa, fb);
     }
@@ -634,14 +630,17 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
   // U_T^T mu = x. It is missed when some lambda_q is clearly negative; a facet met or
   // touched within rounding turns the test off (check 2 then runs in full).
   if (surface_test) {
-    const auto& f0 = facet_rows[0];
-    Vector c = Vector::Zero(n);
-    for (Index i : f0) c += U.row(i).transpose() / u(i);
-    c /= static_cast<double>(n);
+    // The centroid of a facet's polar points into m (no allocation: this runs per facet).
+    auto centroid = [&](const RowSets::View& T, Vector& m) {
+      m.setZero();
+      for (Index i : T) m += U.row(i).transpose() / u(i);
+      m /= static_cast<double>(n);
+    };
+    Vector c(n), x(n), centre(n);
+    centroid(facet_rows[0], c);
     solver.M.resize(n, n);
     solver.rhs.resize(n);
     Eigen::RowVectorXd mu(n);
-    Vector x(n), centre(n);
     for (Index g = 1; g < F && surface_test; ++g) {
       const double d = Y.row(g).dot(c);
       if (!(d > 0.0)) continue;
@@ -649,9 +648,7 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       // A quick miss first: x farther from the facet's centroid than its farthest point
       // (with a margin) is outside the simplex.
       x = c / d;
-      centre.setZero();
-      for (Index i : T) centre += U.row(i).transpose() / u(i);
-      centre /= static_cast<double>(n);
+      centroid(T, centre);
       double reach = 0.0;
       for (Index i : T) reach = std::max(reach, (U.row(i).transpose() / u(i) - centre).norm());
       if ((x - centre).norm() > 1.01 * reach) continue;
@@ -762,16 +759,17 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
     std::vector<char> on_surface;
     const bool surface = surface_test && pass == 0 && G == F;
     out.convex_surface = surface;
+    Index surface_rows = 0;
     if (surface) {
       on_surface.assign(static_cast<size_t>(k), 0);
       for (Index f = 0; f < F; ++f)
         for (Index i : facet_rows[static_cast<size_t>(f)]) {
+          surface_rows += !on_surface[static_cast<size_t>(i)];
           on_surface[static_cast<size_t>(i)] = 1;
           tight_pairs.emplace_back(group_of[static_cast<size_t>(f)], i);
         }
     }
-    bool off_surface = !surface;  // some row is not on the surface
-    for (Index i = 0; i < k && !off_surface; ++i) off_surface = !on_surface[static_cast<size_t>(i)];
+    const bool off_surface = surface_rows < k;  // some row is evaluated at every vertex
     // Few rows (64 or fewer): every pair, by blocked matrix products; the tree's construction
     // would cost more than it saves (measured by instruction counts at n = 3..6).
     const bool direct = k <= 64;
@@ -838,7 +836,9 @@ inline PolarCheck polar_vertices(const Matrix& R, const Vector& s, const QhullRu
       for (const auto& [g, i] : tight_pairs)
         out.tight.items[static_cast<size_t>(fill[static_cast<size_t>(g)]++)] = i;
     }
-    if (surface)  // the pairs came facet by facet, then row by row: sort each vertex's rows
+    // With the surface test the pairs came facet by facet (each facet's rows ascending), then
+    // row by row for the rows off the surface: those lists need sorting.
+    if (surface && off_surface)
       for (Index g = 0; g < G; ++g)
         std::sort(out.tight.items.begin() +
                       static_cast<std::ptrdiff_t>(out.tight.start[static_cast<size_t>(g)]),
